@@ -1,0 +1,291 @@
+//! One piece of a contour: a line, a polynomial Bézier (kurbo's types), a conic or a circular arc.
+//!
+//! Speed bounds, used by `measure` to certify deviations, come from the hodograph: the derivative
+//! of a degree-n Bézier is a degree-(n−1) Bézier with control points n(Pᵢ₊₁ − Pᵢ), so by the convex
+//! hull property its norm never exceeds the largest of theirs (Farin, *Curves and Surfaces for
+//! CAGD*, 5th ed., 2002, §5.3). Conics bound their speed in `conic.rs`; an arc's speed is r·|θ|.
+
+use kurbo::{
+    Affine, CubicBez, Line, ParamCurve, ParamCurveArclen, ParamCurveDeriv, ParamCurveExtrema,
+    ParamCurveNearest, Point, QuadBez, Rect, Vec2,
+};
+use serde::Serialize;
+
+use super::{CircularArc, Conic};
+
+/// A contour segment, in millimetres.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum Segment {
+    Line(Line),
+    Quad(QuadBez),
+    Cubic(CubicBez),
+    Conic(Conic),
+    Arc(CircularArc),
+}
+
+/// The kind of a segment, for counts in reports.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum SegmentKind {
+    Line,
+    Quadratic,
+    Cubic,
+    Conic,
+    Arc,
+}
+
+/// Segment counts by kind.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Serialize)]
+pub struct SegmentCounts {
+    pub line: usize,
+    pub quadratic: usize,
+    pub cubic: usize,
+    pub conic: usize,
+    pub arc: usize,
+}
+
+impl SegmentCounts {
+    pub fn of(segments: &[Segment]) -> SegmentCounts {
+        let mut c = SegmentCounts::default();
+        for s in segments {
+            c.add(s.kind());
+        }
+        c
+    }
+
+    pub fn add(&mut self, k: SegmentKind) {
+        match k {
+            SegmentKind::Line => self.line += 1,
+            SegmentKind::Quadratic => self.quadratic += 1,
+            SegmentKind::Cubic => self.cubic += 1,
+            SegmentKind::Conic => self.conic += 1,
+            SegmentKind::Arc => self.arc += 1,
+        }
+    }
+
+    pub fn merge(&mut self, o: &SegmentCounts) {
+        self.line += o.line;
+        self.quadratic += o.quadratic;
+        self.cubic += o.cubic;
+        self.conic += o.conic;
+        self.arc += o.arc;
+    }
+
+    pub fn total(&self) -> usize {
+        self.line + self.quadratic + self.cubic + self.conic + self.arc
+    }
+}
+
+fn max_norm(v: &[Vec2]) -> f64 {
+    v.iter().map(|d| d.hypot()).fold(0.0, f64::max)
+}
+
+impl Segment {
+    pub fn kind(&self) -> SegmentKind {
+        match self {
+            Segment::Line(_) => SegmentKind::Line,
+            Segment::Quad(_) => SegmentKind::Quadratic,
+            Segment::Cubic(_) => SegmentKind::Cubic,
+            Segment::Conic(_) => SegmentKind::Conic,
+            Segment::Arc(_) => SegmentKind::Arc,
+        }
+    }
+
+    pub fn eval(&self, t: f64) -> Point {
+        match self {
+            Segment::Line(s) => s.eval(t),
+            Segment::Quad(s) => s.eval(t),
+            Segment::Cubic(s) => s.eval(t),
+            Segment::Conic(s) => s.eval(t),
+            Segment::Arc(s) => s.eval(t),
+        }
+    }
+
+    pub fn start(&self) -> Point {
+        self.eval(0.0)
+    }
+
+    pub fn end(&self) -> Point {
+        self.eval(1.0)
+    }
+
+    /// The velocity at t.
+    pub fn deriv_at(&self, t: f64) -> Vec2 {
+        match self {
+            Segment::Line(s) => s.p1 - s.p0,
+            Segment::Quad(s) => s.deriv().eval(t).to_vec2(),
+            Segment::Cubic(s) => s.deriv().eval(t).to_vec2(),
+            Segment::Conic(s) => s.deriv_at(t),
+            Segment::Arc(s) => s.deriv_at(t),
+        }
+    }
+
+    /// The direction of travel at t, looking past vanishing derivatives (cusps, coincident
+    /// control points) to the next non-zero one; `None` for a segment of zero length.
+    pub fn tangent_at(&self, t: f64) -> Option<Vec2> {
+        let d = self.deriv_at(t);
+        let scale = self.speed_bound();
+        if scale > 0.0 && d.hypot() > 1e-9 * scale {
+            return Some(d.normalize());
+        }
+        // Step inside the segment and take the chord direction, which tends to the tangent.
+        let h = 1e-6;
+        let (a, b) = if t < 0.5 { (t, t + h) } else { (t - h, t) };
+        let c = self.eval(b) - self.eval(a);
+        (c.hypot() > 0.0).then(|| c.normalize())
+    }
+
+    /// A rigorous upper bound on |d/dt segment(t)| over t in [0, 1].
+    pub fn speed_bound(&self) -> f64 {
+        match self {
+            Segment::Line(s) => (s.p1 - s.p0).hypot(),
+            Segment::Quad(s) => 2.0 * max_norm(&[s.p1 - s.p0, s.p2 - s.p1]),
+            Segment::Cubic(s) => 3.0 * max_norm(&[s.p1 - s.p0, s.p2 - s.p1, s.p3 - s.p2]),
+            Segment::Conic(s) => s.speed_bound(),
+            Segment::Arc(s) => s.speed(),
+        }
+    }
+
+    /// The piece over [t0, t1], reparametrised to [0, 1].
+    pub fn subsegment(&self, t0: f64, t1: f64) -> Segment {
+        let r = t0..t1;
+        match self {
+            Segment::Line(s) => Segment::Line(s.subsegment(r)),
+            Segment::Quad(s) => Segment::Quad(s.subsegment(r)),
+            Segment::Cubic(s) => Segment::Cubic(s.subsegment(r)),
+            Segment::Conic(s) => Segment::Conic(s.subconic(t0, t1)),
+            Segment::Arc(s) => Segment::Arc(s.subsegment(r)),
+        }
+    }
+
+    pub fn reversed(&self) -> Segment {
+        match self {
+            Segment::Line(s) => Segment::Line(Line::new(s.p1, s.p0)),
+            Segment::Quad(s) => Segment::Quad(QuadBez::new(s.p2, s.p1, s.p0)),
+            Segment::Cubic(s) => Segment::Cubic(CubicBez::new(s.p3, s.p2, s.p1, s.p0)),
+            Segment::Conic(s) => Segment::Conic(s.reversed()),
+            Segment::Arc(s) => Segment::Arc(s.reversed()),
+        }
+    }
+
+    /// The distance from p to the segment and the parameter of the nearest point. Exact for
+    /// lines, conics and arcs (closed-form roots); kurbo's solver for quadratics and cubics.
+    /// Whatever the solver returns is the distance to a point of the segment, so it never
+    /// underestimates the true distance.
+    pub fn nearest(&self, p: Point) -> (f64, f64) {
+        const ACCURACY: f64 = 1e-12;
+        let n = match self {
+            Segment::Line(s) => s.nearest(p, ACCURACY),
+            Segment::Quad(s) => s.nearest(p, ACCURACY),
+            Segment::Cubic(s) => s.nearest(p, ACCURACY),
+            Segment::Conic(s) => s.nearest(p, ACCURACY),
+            Segment::Arc(s) => s.nearest(p, ACCURACY),
+        };
+        (n.distance_sq.sqrt(), n.t)
+    }
+
+    /// The tight bounding box.
+    pub fn bounding_box(&self) -> Rect {
+        match self {
+            Segment::Line(s) => s.bounding_box(),
+            Segment::Quad(s) => s.bounding_box(),
+            Segment::Cubic(s) => s.bounding_box(),
+            Segment::Conic(s) => s.bounding_box(),
+            Segment::Arc(s) => s
+                .to_conics()
+                .iter()
+                .fold(Rect::from_points(s.eval(0.0), s.eval(1.0)), |r, c| {
+                    r.union(c.bounding_box())
+                }),
+        }
+    }
+
+    /// The arc length, to the given accuracy.
+    pub fn arclen(&self, accuracy: f64) -> f64 {
+        match self {
+            Segment::Line(s) => s.arclen(accuracy),
+            Segment::Quad(s) => s.arclen(accuracy),
+            Segment::Cubic(s) => s.arclen(accuracy),
+            Segment::Arc(s) => s.speed(),
+            Segment::Conic(s) => conic_arclen(s, accuracy),
+        }
+    }
+
+    /// Apply an affine map exactly. A circular arc stays an arc under a similarity and becomes
+    /// conics otherwise, so the result may hold more than one segment.
+    pub fn transform(&self, a: Affine, out: &mut Vec<Segment>) {
+        match self {
+            Segment::Line(s) => out.push(Segment::Line(a * *s)),
+            Segment::Quad(s) => out.push(Segment::Quad(a * *s)),
+            Segment::Cubic(s) => out.push(Segment::Cubic(a * *s)),
+            Segment::Conic(s) => out.push(Segment::Conic(s.transform(a))),
+            Segment::Arc(s) => out.extend(s.to_conics().iter().map(|c| Segment::Conic(c.transform(a)))),
+        }
+    }
+
+    /// Whether every coordinate is finite.
+    pub fn is_finite(&self) -> bool {
+        let b = self.bounding_box();
+        b.x0.is_finite() && b.x1.is_finite() && b.y0.is_finite() && b.y1.is_finite()
+    }
+}
+
+/// Conic arc length by adaptive chord refinement: the chord sum over a subdivision is a lower
+/// bound and the control-polygon sum an upper bound (convexity of the control polygon of a
+/// positive-weight conic); refine until they agree within `accuracy`.
+fn conic_arclen(c: &Conic, accuracy: f64) -> f64 {
+    fn rec(c: &Conic, acc: f64, depth: u32) -> f64 {
+        let [p0, p1, p2] = c.points();
+        let chord = (p2 - p0).hypot();
+        let poly = (p1 - p0).hypot() + (p2 - p1).hypot();
+        if poly - chord <= acc || depth >= 24 {
+            return 0.5 * (poly + chord);
+        }
+        let (l, r) = c.split(0.5);
+        rec(&l, 0.5 * acc, depth + 1) + rec(&r, 0.5 * acc, depth + 1)
+    }
+    rec(c, accuracy.max(1e-12), 0)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use approx::assert_abs_diff_eq;
+
+    #[test]
+    fn quarter_circle_length() {
+        let a = CircularArc {
+            center: Point::ORIGIN,
+            radius: 10.0,
+            start_angle: 0.0,
+            sweep: std::f64::consts::FRAC_PI_2,
+        };
+        let c = Segment::Conic(a.to_conics()[0]);
+        // Circumference 2πr (Euclid); a quarter is 5π.
+        assert_abs_diff_eq!(c.arclen(1e-9), 5.0 * std::f64::consts::PI, epsilon = 1e-8);
+        assert_abs_diff_eq!(Segment::Arc(a).arclen(1e-9), 5.0 * std::f64::consts::PI, epsilon = 1e-12);
+    }
+
+    #[test]
+    fn speed_bounds_hold() {
+        let segs = [
+            Segment::Quad(QuadBez::new((0.0, 0.0), (5.0, 10.0), (10.0, 0.0))),
+            Segment::Cubic(CubicBez::new((0.0, 0.0), (0.0, 10.0), (10.0, -10.0), (10.0, 0.0))),
+        ];
+        for s in segs {
+            let b = s.speed_bound();
+            for i in 0..=100 {
+                assert!(s.deriv_at(i as f64 / 100.0).hypot() <= b * (1.0 + 1e-12));
+            }
+        }
+    }
+
+    #[test]
+    fn tangent_at_cusp_looks_past_zero_derivative() {
+        let s = Segment::Cubic(CubicBez::new((0.0, 0.0), (0.0, 0.0), (10.0, 5.0), (10.0, 0.0)));
+        let t = s.tangent_at(0.0).unwrap();
+        assert_abs_diff_eq!(t.y / t.x, 0.5, epsilon = 1e-4);
+        let z = Segment::Line(Line::new((1.0, 1.0), (1.0, 1.0)));
+        assert!(z.tangent_at(0.0).is_none());
+    }
+}

@@ -1,0 +1,10 @@
+//! ratline: outlines from SVG artwork and fonts, kept exact (every arc a conic), fitted to the
+//! primitives a cutter or engraver accepts within a tolerance in millimetres, with the true
+//! deviation measured and certified.
+
+pub mod error;
+pub mod geom;
+pub mod read;
+pub mod write;
+
+pub use error::InputError;
