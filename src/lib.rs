@@ -3,7 +3,9 @@
 //! deviation measured and certified.
 
 pub mod error;
+pub mod fit;
 pub mod geom;
+pub mod measure;
 pub mod read;
 pub mod write;
 

@@ -160,6 +160,24 @@ impl Conic {
         dmax / (wmin * wmin)
     }
 
+    /// A rigorous upper bound on |C''(t)| over t in [0, 1]. From C = N/W,
+    /// C'' = (N'' − W''·C − 2W'·C') / W, with the origin moved to the centroid O of the control
+    /// points (C'' does not change): |N''| is constant, |W''| = 4|1 − w|, |W'| ≤ 2|1 − w|,
+    /// |C − O| ≤ max|Pᵢ − O| (convex hull) and |C'| ≤ `speed_bound`.
+    pub fn accel_bound(&self) -> f64 {
+        let [p0, p1, p2] = self.points();
+        let w = self.weight();
+        let o = Point::new((p0.x + p1.x + p2.x) / 3.0, (p0.y + p1.y + p2.y) / 3.0);
+        let n2 = 2.0 * ((p0 - o) - 2.0 * w * (p1 - o) + (p2 - o));
+        let r = [p0, p1, p2]
+            .iter()
+            .map(|p| (*p - o).hypot())
+            .fold(0.0, f64::max);
+        let dw = (1.0 - w).abs();
+        let wmin = (0.5 * (1.0 + w)).min(1.0);
+        (n2.hypot() + 4.0 * dw * r + 4.0 * dw * self.speed_bound()) / wmin
+    }
+
     /// Split at t into two conics, each in standard form.
     pub fn split(&self, t: f64) -> (Conic, Conic) {
         (self.subconic(0.0, t), self.subconic(t, 1.0))
@@ -336,6 +354,8 @@ impl ParamCurveExtrema for Conic {
 }
 
 #[cfg(test)]
+// The check values are the published decimals of REFERENCES §2, not the constants they approach.
+#[allow(clippy::approx_constant)]
 mod tests {
     use super::*;
     use approx::assert_abs_diff_eq;
@@ -422,8 +442,15 @@ mod tests {
         assert_eq!(Conic::new(p, p, f64::NAN, p), Err(GeomError::NonFinite));
         let q = Point::new(f64::INFINITY, 0.0);
         assert_eq!(Conic::new(p, q, 1.0, p), Err(GeomError::NonFinite));
-        let h = [Vector3::new(0.0, 0.0, 1.0), Vector3::new(1.0, 1.0, -1.0), Vector3::z()];
-        assert_eq!(Conic::from_homogeneous(h), Err(GeomError::NonPositiveWeight));
+        let h = [
+            Vector3::new(0.0, 0.0, 1.0),
+            Vector3::new(1.0, 1.0, -1.0),
+            Vector3::z(),
+        ];
+        assert_eq!(
+            Conic::from_homogeneous(h),
+            Err(GeomError::NonPositiveWeight)
+        );
     }
 
     #[test]
@@ -463,6 +490,9 @@ mod tests {
             let d = c.deriv_at(t);
             assert!((fd - d).hypot() < 1e-4 * d.hypot().max(1.0), "t = {t}");
             assert!(d.hypot() <= bound * (1.0 + 1e-12));
+            let acc = (c.deriv_at((t + h).min(1.0)) - c.deriv_at((t - h).max(0.0)))
+                / ((t + h).min(1.0) - (t - h).max(0.0));
+            assert!(acc.hypot() <= c.accel_bound() * (1.0 + 1e-6), "t = {t}");
         }
     }
 
@@ -475,7 +505,13 @@ mod tests {
             Point::new(7.0, -1.0),
         )
         .unwrap();
-        for (x, y) in [(1.0, 1.0), (5.0, 5.0), (-3.0, 2.0), (3.5, 0.0), (10.0, -4.0)] {
+        for (x, y) in [
+            (1.0, 1.0),
+            (5.0, 5.0),
+            (-3.0, 2.0),
+            (3.5, 0.0),
+            (10.0, -4.0),
+        ] {
             let p = Point::new(x, y);
             let n = c.nearest(p, 1e-12);
             let dense = (0..=100_000)
@@ -500,7 +536,11 @@ mod tests {
 
     #[test]
     fn classification() {
-        let p = [Point::new(0.0, 0.0), Point::new(1.0, 1.0), Point::new(2.0, 0.0)];
+        let p = [
+            Point::new(0.0, 0.0),
+            Point::new(1.0, 1.0),
+            Point::new(2.0, 0.0),
+        ];
         let k = |w| Conic::new(p[0], p[1], w, p[2]).unwrap().kind();
         assert_eq!(k(0.5), ConicKind::Ellipse);
         assert_eq!(k(1.0), ConicKind::Parabola);

@@ -146,6 +146,23 @@ impl Segment {
         }
     }
 
+    /// A rigorous upper bound on |d²/dt² segment(t)| over t in [0, 1] (second hodograph).
+    pub fn accel_bound(&self) -> f64 {
+        match self {
+            Segment::Line(_) => 0.0,
+            Segment::Quad(s) => {
+                2.0 * (s.p0.to_vec2() - 2.0 * s.p1.to_vec2() + s.p2.to_vec2()).hypot()
+            }
+            Segment::Cubic(s) => {
+                let a = s.p0.to_vec2() - 2.0 * s.p1.to_vec2() + s.p2.to_vec2();
+                let b = s.p1.to_vec2() - 2.0 * s.p2.to_vec2() + s.p3.to_vec2();
+                6.0 * max_norm(&[a, b])
+            }
+            Segment::Conic(s) => s.accel_bound(),
+            Segment::Arc(s) => s.radius * s.sweep * s.sweep,
+        }
+    }
+
     /// The piece over [t0, t1], reparametrised to [0, 1].
     pub fn subsegment(&self, t0: f64, t1: f64) -> Segment {
         let r = t0..t1;
@@ -219,7 +236,9 @@ impl Segment {
             Segment::Quad(s) => out.push(Segment::Quad(a * *s)),
             Segment::Cubic(s) => out.push(Segment::Cubic(a * *s)),
             Segment::Conic(s) => out.push(Segment::Conic(s.transform(a))),
-            Segment::Arc(s) => out.extend(s.to_conics().iter().map(|c| Segment::Conic(c.transform(a)))),
+            Segment::Arc(s) => {
+                out.extend(s.to_conics().iter().map(|c| Segment::Conic(c.transform(a))))
+            }
         }
     }
 
@@ -263,26 +282,46 @@ mod tests {
         let c = Segment::Conic(a.to_conics()[0]);
         // Circumference 2πr (Euclid); a quarter is 5π.
         assert_abs_diff_eq!(c.arclen(1e-9), 5.0 * std::f64::consts::PI, epsilon = 1e-8);
-        assert_abs_diff_eq!(Segment::Arc(a).arclen(1e-9), 5.0 * std::f64::consts::PI, epsilon = 1e-12);
+        assert_abs_diff_eq!(
+            Segment::Arc(a).arclen(1e-9),
+            5.0 * std::f64::consts::PI,
+            epsilon = 1e-12
+        );
     }
 
     #[test]
     fn speed_bounds_hold() {
         let segs = [
             Segment::Quad(QuadBez::new((0.0, 0.0), (5.0, 10.0), (10.0, 0.0))),
-            Segment::Cubic(CubicBez::new((0.0, 0.0), (0.0, 10.0), (10.0, -10.0), (10.0, 0.0))),
+            Segment::Cubic(CubicBez::new(
+                (0.0, 0.0),
+                (0.0, 10.0),
+                (10.0, -10.0),
+                (10.0, 0.0),
+            )),
         ];
         for s in segs {
             let b = s.speed_bound();
+            let a = s.accel_bound();
             for i in 0..=100 {
-                assert!(s.deriv_at(i as f64 / 100.0).hypot() <= b * (1.0 + 1e-12));
+                let t = i as f64 / 100.0;
+                assert!(s.deriv_at(t).hypot() <= b * (1.0 + 1e-12));
+                let h = 1e-5;
+                let (t0, t1) = ((t - h).max(0.0), (t + h).min(1.0));
+                let acc = (s.deriv_at(t1) - s.deriv_at(t0)) / (t1 - t0);
+                assert!(acc.hypot() <= a * (1.0 + 1e-6));
             }
         }
     }
 
     #[test]
     fn tangent_at_cusp_looks_past_zero_derivative() {
-        let s = Segment::Cubic(CubicBez::new((0.0, 0.0), (0.0, 0.0), (10.0, 5.0), (10.0, 0.0)));
+        let s = Segment::Cubic(CubicBez::new(
+            (0.0, 0.0),
+            (0.0, 0.0),
+            (10.0, 5.0),
+            (10.0, 0.0),
+        ));
         let t = s.tangent_at(0.0).unwrap();
         assert_abs_diff_eq!(t.y / t.x, 0.5, epsilon = 1e-4);
         let z = Segment::Line(Line::new((1.0, 1.0), (1.0, 1.0)));
