@@ -276,7 +276,15 @@ mod tests {
     use super::*;
     use approx::assert_abs_diff_eq;
 
-    fn arc(from: (f64, f64), rx: f64, ry: f64, rot: f64, la: bool, sw: bool, to: (f64, f64)) -> SvgArcShape {
+    fn arc(
+        from: (f64, f64),
+        rx: f64,
+        ry: f64,
+        rot: f64,
+        la: bool,
+        sw: bool,
+        to: (f64, f64),
+    ) -> SvgArcShape {
         svg_arc_to_center(&SvgArcParams {
             from: from.into(),
             rx,
@@ -300,7 +308,15 @@ mod tests {
     #[test]
     fn svg_spec_path_example_one() {
         // from (150,200): a150,150 0 1,0 150,-150
-        let e = expect_arc(arc((150.0, 200.0), 150.0, 150.0, 0.0, true, false, (300.0, 50.0)));
+        let e = expect_arc(arc(
+            (150.0, 200.0),
+            150.0,
+            150.0,
+            0.0,
+            true,
+            false,
+            (300.0, 50.0),
+        ));
         assert_abs_diff_eq!(e.center.x, 300.0, epsilon = 1e-9);
         assert_abs_diff_eq!(e.center.y, 200.0, epsilon = 1e-9);
         assert_abs_diff_eq!(e.start_angle.to_degrees().abs(), 180.0, epsilon = 1e-9);
@@ -310,7 +326,15 @@ mod tests {
     #[test]
     fn svg_spec_path_example_two() {
         // M275,175 v-150 a150,150 0 0,0 -150,150
-        let e = expect_arc(arc((275.0, 25.0), 150.0, 150.0, 0.0, false, false, (125.0, 175.0)));
+        let e = expect_arc(arc(
+            (275.0, 25.0),
+            150.0,
+            150.0,
+            0.0,
+            false,
+            false,
+            (125.0, 175.0),
+        ));
         assert_abs_diff_eq!(e.center.x, 275.0, epsilon = 1e-9);
         assert_abs_diff_eq!(e.center.y, 175.0, epsilon = 1e-9);
         assert_abs_diff_eq!(e.start_angle.to_degrees(), -90.0, epsilon = 1e-9);
@@ -320,7 +344,15 @@ mod tests {
     #[test]
     fn svg_radii_scaled_up() {
         // from (650,325): a25,25 -30 0,1 50,-25 → Λ = 1.25, r = 27.9508497187
-        let e = expect_arc(arc((650.0, 325.0), 25.0, 25.0, -30.0, false, true, (700.0, 300.0)));
+        let e = expect_arc(arc(
+            (650.0, 325.0),
+            25.0,
+            25.0,
+            -30.0,
+            false,
+            true,
+            (700.0, 300.0),
+        ));
         assert_abs_diff_eq!(e.radii.x, 27.9508497187, epsilon = 1e-9);
         assert_abs_diff_eq!(e.center.x, 675.0, epsilon = 1e-9);
         assert_abs_diff_eq!(e.center.y, 312.5, epsilon = 1e-9);
@@ -335,31 +367,69 @@ mod tests {
     #[test]
     fn svg_rotated_ellipse() {
         // M10,20 A30,15 30 0,1 50,40 and the same with large-arc = 1.
-        let e = expect_arc(arc((10.0, 20.0), 30.0, 15.0, 30.0, false, true, (50.0, 40.0)));
+        let e = expect_arc(arc(
+            (10.0, 20.0),
+            30.0,
+            15.0,
+            30.0,
+            false,
+            true,
+            (50.0, 40.0),
+        ));
         assert_abs_diff_eq!(e.center.x, 27.1196670586, epsilon = 1e-9);
         assert_abs_diff_eq!(e.center.y, 39.7243008422, epsilon = 1e-9);
         assert_abs_diff_eq!(e.start_angle.to_degrees(), -145.380248401, epsilon = 1e-8);
         assert_abs_diff_eq!(e.sweep.to_degrees(), 97.0697323050, epsilon = 1e-8);
-        let l = expect_arc(arc((10.0, 20.0), 30.0, 15.0, 30.0, true, true, (50.0, 40.0)));
+        let l = expect_arc(arc(
+            (10.0, 20.0),
+            30.0,
+            15.0,
+            30.0,
+            true,
+            true,
+            (50.0, 40.0),
+        ));
         assert_abs_diff_eq!(l.center.x, 32.8803329414, epsilon = 1e-9);
         assert_abs_diff_eq!(l.center.y, 20.2756991578, epsilon = 1e-9);
         assert_abs_diff_eq!(l.start_angle.to_degrees(), 131.689483904, epsilon = 1e-8);
         assert_abs_diff_eq!(l.sweep.to_degrees(), 262.930267695, epsilon = 1e-8);
         // Negative radii and φ = 390° give the same arc.
-        let n = expect_arc(arc((10.0, 20.0), -30.0, -15.0, 390.0, false, true, (50.0, 40.0)));
+        let n = expect_arc(arc(
+            (10.0, 20.0),
+            -30.0,
+            -15.0,
+            390.0,
+            false,
+            true,
+            (50.0, 40.0),
+        ));
         assert_abs_diff_eq!(n.center.x, e.center.x, epsilon = 1e-9);
         assert_abs_diff_eq!(n.sweep, e.sweep, epsilon = 1e-12);
     }
 
     #[test]
     fn svg_degenerate_rules() {
-        assert_eq!(arc((0.0, 0.0), 0.0, 5.0, 0.0, false, true, (3.0, 1.0)), SvgArcShape::Line);
-        assert_eq!(arc((3.0, 4.0), 5.0, 5.0, 0.0, false, true, (3.0, 4.0)), SvgArcShape::Omitted);
+        assert_eq!(
+            arc((0.0, 0.0), 0.0, 5.0, 0.0, false, true, (3.0, 1.0)),
+            SvgArcShape::Line
+        );
+        assert_eq!(
+            arc((3.0, 4.0), 5.0, 5.0, 0.0, false, true, (3.0, 4.0)),
+            SvgArcShape::Omitted
+        );
     }
 
     #[test]
     fn svg_arc_conics_hit_end_points_and_stay_on_ellipse() {
-        let e = expect_arc(arc((10.0, 20.0), 30.0, 15.0, 30.0, true, true, (50.0, 40.0)));
+        let e = expect_arc(arc(
+            (10.0, 20.0),
+            30.0,
+            15.0,
+            30.0,
+            true,
+            true,
+            (50.0, 40.0),
+        ));
         let cs = e.to_conics();
         assert_eq!(cs.len(), 3); // 262.9° in pieces of at most 90°
         assert!((cs[0].start() - Point::new(10.0, 20.0)).hypot() < 1e-9);
@@ -398,6 +468,10 @@ mod tests {
         assert_abs_diff_eq!(n.t, 0.5, epsilon = 1e-12);
         // Outside the swept range: nearest end point.
         let n = a.nearest(Point::new(1.0, -5.0), 0.0);
-        assert_abs_diff_eq!(n.distance_sq, (Point::new(3.0, 1.0) - Point::new(1.0, -5.0)).hypot2(), epsilon = 1e-12);
+        assert_abs_diff_eq!(
+            n.distance_sq,
+            (Point::new(3.0, 1.0) - Point::new(1.0, -5.0)).hypot2(),
+            epsilon = 1e-12
+        );
     }
 }

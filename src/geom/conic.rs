@@ -422,8 +422,15 @@ mod tests {
         assert_eq!(Conic::new(p, p, f64::NAN, p), Err(GeomError::NonFinite));
         let q = Point::new(f64::INFINITY, 0.0);
         assert_eq!(Conic::new(p, q, 1.0, p), Err(GeomError::NonFinite));
-        let h = [Vector3::new(0.0, 0.0, 1.0), Vector3::new(1.0, 1.0, -1.0), Vector3::z()];
-        assert_eq!(Conic::from_homogeneous(h), Err(GeomError::NonPositiveWeight));
+        let h = [
+            Vector3::new(0.0, 0.0, 1.0),
+            Vector3::new(1.0, 1.0, -1.0),
+            Vector3::z(),
+        ];
+        assert_eq!(
+            Conic::from_homogeneous(h),
+            Err(GeomError::NonPositiveWeight)
+        );
     }
 
     #[test]
@@ -475,7 +482,13 @@ mod tests {
             Point::new(7.0, -1.0),
         )
         .unwrap();
-        for (x, y) in [(1.0, 1.0), (5.0, 5.0), (-3.0, 2.0), (3.5, 0.0), (10.0, -4.0)] {
+        for (x, y) in [
+            (1.0, 1.0),
+            (5.0, 5.0),
+            (-3.0, 2.0),
+            (3.5, 0.0),
+            (10.0, -4.0),
+        ] {
             let p = Point::new(x, y);
             let n = c.nearest(p, 1e-12);
             let dense = (0..=100_000)
@@ -500,7 +513,11 @@ mod tests {
 
     #[test]
     fn classification() {
-        let p = [Point::new(0.0, 0.0), Point::new(1.0, 1.0), Point::new(2.0, 0.0)];
+        let p = [
+            Point::new(0.0, 0.0),
+            Point::new(1.0, 1.0),
+            Point::new(2.0, 0.0),
+        ];
         let k = |w| Conic::new(p[0], p[1], w, p[2]).unwrap().kind();
         assert_eq!(k(0.5), ConicKind::Ellipse);
         assert_eq!(k(1.0), ConicKind::Parabola);

@@ -28,7 +28,9 @@ pub enum GeomError {
 impl std::fmt::Display for GeomError {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
         f.write_str(match self {
-            GeomError::NonPositiveWeight => "a conic weight is zero or negative (weights must be > 0)",
+            GeomError::NonPositiveWeight => {
+                "a conic weight is zero or negative (weights must be > 0)"
+            }
             GeomError::NonFinite => "a coordinate or weight is NaN or infinite",
         })
     }

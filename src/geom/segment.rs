@@ -219,7 +219,9 @@ impl Segment {
             Segment::Quad(s) => out.push(Segment::Quad(a * *s)),
             Segment::Cubic(s) => out.push(Segment::Cubic(a * *s)),
             Segment::Conic(s) => out.push(Segment::Conic(s.transform(a))),
-            Segment::Arc(s) => out.extend(s.to_conics().iter().map(|c| Segment::Conic(c.transform(a)))),
+            Segment::Arc(s) => {
+                out.extend(s.to_conics().iter().map(|c| Segment::Conic(c.transform(a))))
+            }
         }
     }
 
@@ -263,14 +265,23 @@ mod tests {
         let c = Segment::Conic(a.to_conics()[0]);
         // Circumference 2πr (Euclid); a quarter is 5π.
         assert_abs_diff_eq!(c.arclen(1e-9), 5.0 * std::f64::consts::PI, epsilon = 1e-8);
-        assert_abs_diff_eq!(Segment::Arc(a).arclen(1e-9), 5.0 * std::f64::consts::PI, epsilon = 1e-12);
+        assert_abs_diff_eq!(
+            Segment::Arc(a).arclen(1e-9),
+            5.0 * std::f64::consts::PI,
+            epsilon = 1e-12
+        );
     }
 
     #[test]
     fn speed_bounds_hold() {
         let segs = [
             Segment::Quad(QuadBez::new((0.0, 0.0), (5.0, 10.0), (10.0, 0.0))),
-            Segment::Cubic(CubicBez::new((0.0, 0.0), (0.0, 10.0), (10.0, -10.0), (10.0, 0.0))),
+            Segment::Cubic(CubicBez::new(
+                (0.0, 0.0),
+                (0.0, 10.0),
+                (10.0, -10.0),
+                (10.0, 0.0),
+            )),
         ];
         for s in segs {
             let b = s.speed_bound();
@@ -282,7 +293,12 @@ mod tests {
 
     #[test]
     fn tangent_at_cusp_looks_past_zero_derivative() {
-        let s = Segment::Cubic(CubicBez::new((0.0, 0.0), (0.0, 0.0), (10.0, 5.0), (10.0, 0.0)));
+        let s = Segment::Cubic(CubicBez::new(
+            (0.0, 0.0),
+            (0.0, 0.0),
+            (10.0, 5.0),
+            (10.0, 0.0),
+        ));
         let t = s.tangent_at(0.0).unwrap();
         assert_abs_diff_eq!(t.y / t.x, 0.5, epsilon = 1e-4);
         let z = Segment::Line(Line::new((1.0, 1.0), (1.0, 1.0)));
