@@ -38,10 +38,13 @@
 //! document order among elements of that tag, counting from 1, like `path[3]`, followed by
 //! `via` and the `use` elements that drew it) and the subpath index (from 0).
 //!
-//! The whole walk is iterative (an explicit stack), so deep nesting cannot overflow the stack.
+//! The whole walk is iterative (an explicit stack), and the raw text is scanned for nesting
+//! depth before the XML parser (which recurses per level) sees it (`scan`), so deep nesting
+//! cannot overflow the stack.
 
 mod attrs;
 mod path;
+mod scan;
 mod shapes;
 
 use std::collections::HashMap;
@@ -90,6 +93,7 @@ pub fn read_svg(file_label: &str, data: &[u8], opts: &SvgOptions) -> Result<Outl
         ));
     }
     let text = decode(file_label, data)?;
+    scan::check_nesting(file_label, text)?;
     let parse_opts = ParsingOptions {
         allow_dtd: true,
         nodes_limit: (3 * MAX_ELEMENTS) as u32,
