@@ -154,6 +154,7 @@ fn cross_check(name: &str, contours: usize, opts: &SvgOptions) -> Outline {
     let (theirs, tol) = usvg_paths(&data, opts.px_per_inch as f32);
     assert!(!theirs.is_empty(), "{name}: usvg found nothing");
     let (f, b) = hausdorff(&ours, &theirs);
+    println!("{name}: ratline→usvg {f:.2e} mm, usvg→ratline {b:.2e} mm, tolerance {tol:.3e} mm");
     assert!(
         f <= tol && b <= tol,
         "{name}: ratline→usvg {f} mm, usvg→ratline {b} mm, tolerance {tol} mm"

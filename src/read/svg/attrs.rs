@@ -85,11 +85,10 @@ pub(super) fn user_attr(
 pub(super) fn property<'a>(node: Node<'a, '_>, name: &str) -> Option<&'a str> {
     let from_style = node.attribute("style").and_then(|style| {
         style
-            .split(';')
+            .rsplit(';')
             .filter_map(|decl| decl.split_once(':'))
-            .filter(|(k, _)| k.trim() == name)
+            .find(|(k, _)| k.trim() == name)
             .map(|(_, v)| v.trim().trim_end_matches("!important").trim())
-            .last()
     });
     from_style.or_else(|| node.attribute(name).map(str::trim))
 }
