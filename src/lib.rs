@@ -3,6 +3,7 @@
 //! deviation measured and certified.
 
 pub mod error;
+pub mod convert;
 pub mod fit;
 pub mod geom;
 pub mod measure;

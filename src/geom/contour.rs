@@ -115,11 +115,42 @@ impl Contour {
     }
 }
 
+/// Why something was not turned into contours: on purpose (hidden, not a drawing, a space) or
+/// because it is broken (bad path data, a glyph that fails to outline). Broken input makes the
+/// command's exit code say so even though the rest converts.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum SkipKind {
+    Hidden,
+    Invalid,
+}
+
 /// Something a reader saw and did not turn into contours, with the reason.
 #[derive(Clone, Debug, PartialEq, Eq, Serialize)]
 pub struct Skipped {
     pub source: Source,
     pub reason: String,
+    pub kind: SkipKind,
+}
+
+impl Skipped {
+    /// Left out on purpose (hidden, not a drawing element, nothing to draw).
+    pub fn hidden(source: Source, reason: impl Into<String>) -> Skipped {
+        Skipped {
+            source,
+            reason: reason.into(),
+            kind: SkipKind::Hidden,
+        }
+    }
+
+    /// Left out because it is broken.
+    pub fn invalid(source: Source, reason: impl Into<String>) -> Skipped {
+        Skipped {
+            source,
+            reason: reason.into(),
+            kind: SkipKind::Invalid,
+        }
+    }
 }
 
 /// A whole drawing or text job: its contours, what was skipped and warnings, in millimetres.

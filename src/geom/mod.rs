@@ -12,7 +12,7 @@ pub use arc::{
     SvgArcShape,
 };
 pub use conic::{CircleFit, Conic, ConicKind};
-pub use contour::{Contour, Outline, Skipped, Source};
+pub use contour::{Contour, Outline, SkipKind, Skipped, Source};
 pub use segment::{Segment, SegmentCounts, SegmentKind};
 pub use units::{mm_per_unit, Length, LengthError, Tolerance, MIN_TOLERANCE_MM, MM_PER_IN};
 

@@ -3,4 +3,5 @@
 pub mod atomic;
 pub mod gcode;
 pub mod json;
+pub mod summary;
 pub mod svg;

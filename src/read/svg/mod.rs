@@ -330,10 +330,13 @@ impl<'a, 'i> Reader<'a, 'i> {
     }
 
     fn skip(&mut self, element: String, index: usize, reason: impl Into<String>) {
-        self.out.skipped.push(Skipped {
-            source: Source::new(self.file, element, index),
-            reason: reason.into(),
-        });
+        let source = Source::new(self.file, element, index);
+        self.out.skipped.push(Skipped::hidden(source, reason));
+    }
+
+    fn skip_invalid(&mut self, element: String, index: usize, reason: impl Into<String>) {
+        let source = Source::new(self.file, element, index);
+        self.out.skipped.push(Skipped::invalid(source, reason));
     }
 
     fn error(&self, node: Node, message: String) -> InputError {
@@ -456,7 +459,7 @@ impl<'a, 'i> Reader<'a, 'i> {
         let own = match transform_attr(node) {
             Ok(t) => t,
             Err(m) => {
-                self.skip(name, 0, format!("element refused: {m}"));
+                self.skip_invalid(name, 0, format!("element refused: {m}"));
                 return Ok(());
             }
         };
@@ -548,7 +551,7 @@ impl<'a, 'i> Reader<'a, 'i> {
                 0,
                 "zero width or height, which disables rendering (SVG 1.1 §7.9)",
             ),
-            Err(m) => self.skip(name.to_string(), 0, format!("element refused: {m}")),
+            Err(m) => self.skip_invalid(name.to_string(), 0, format!("element refused: {m}")),
         }
     }
 
@@ -619,7 +622,7 @@ impl<'a, 'i> Reader<'a, 'i> {
         let (at, w, h) = match sizes {
             Ok(s) => s,
             Err(m) => {
-                self.skip(name.to_string(), 0, format!("element refused: {m}"));
+                self.skip_invalid(name.to_string(), 0, format!("element refused: {m}"));
                 return Ok(());
             }
         };
@@ -678,7 +681,7 @@ impl<'a, 'i> Reader<'a, 'i> {
         let subpaths = match built {
             Ok(s) => s,
             Err(m) => {
-                self.skip(name, 0, format!("element refused: {m}"));
+                self.skip_invalid(name, 0, format!("element refused: {m}"));
                 return;
             }
         };

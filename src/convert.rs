@@ -1,0 +1,266 @@
+//! The convert pipeline as a library: fit every contour of an outline to a target, account for
+//! the writers' rounding, and build the report.
+//!
+//! Error budget. The written file is what the machine follows, so the deviation that counts is
+//! between the exact source S and the geometry R read back from the written numbers. With F the
+//! fitted contour, the Hausdorff distance obeys the triangle inequality,
+//! d_H(S, R) ≤ d_H(S, F) + d_H(F, R), and both terms are certified by `measure`: the first while
+//! fitting, the second by measuring F against each writer's read-back geometry
+//! (`write::svg::svg_as_read`, `write::gcode::gcode_as_read`). Fitting aims at 95% of the
+//! tolerance; numbers are written with enough decimals that rounding (at most √2/2·10⁻ᵈ per point)
+//! stays near 1% of it. A contour whose sum still exceeds the tolerance is refitted tighter once;
+//! whatever remains is reported, never hidden.
+
+use rayon::prelude::*;
+use serde::Serialize;
+
+use crate::fit::{fit, Target};
+use crate::geom::{Contour, Outline, SegmentCounts, SkipKind, Skipped, Source, Tolerance};
+use crate::measure;
+use crate::write;
+
+/// A written format whose rounding enters the error budget.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum Format {
+    Svg,
+    Gcode,
+}
+
+/// Decimals for written numbers: the fewest with √2/2·10⁻ᵈ ≤ tolerance/100, at least 4
+/// (0.1 µm, finer than any machine; common practice, no source), at most 9.
+pub fn decimals_for(tol: Tolerance) -> u32 {
+    let d = (std::f64::consts::FRAC_1_SQRT_2 * 100.0 / tol.mm()).log10().ceil();
+    (d as i64).clamp(4, 9) as u32
+}
+
+/// The report for one contour.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct ContourReport {
+    pub source: Source,
+    pub closed: bool,
+    pub segments_in: SegmentCounts,
+    pub segments_out: SegmentCounts,
+    /// Certified bound on the deviation of the written contour from the source.
+    pub max_deviation_mm: f64,
+    /// Of which: the fit's certified deviation.
+    pub fit_deviation_mm: f64,
+    /// Of which: the writers' rounding, certified.
+    pub rounding_mm: f64,
+    /// The worst point found (mm, y down).
+    pub at: [f64; 2],
+    pub within_tolerance: bool,
+}
+
+/// The result of fitting a whole outline: fitted contours and their reports, in input order.
+#[derive(Clone, Debug)]
+pub struct FittedOutline {
+    pub target: Target,
+    pub contours: Vec<Contour>,
+    pub reports: Vec<ContourReport>,
+}
+
+impl FittedOutline {
+    /// The worst contour's report.
+    pub fn worst(&self) -> Option<&ContourReport> {
+        self.reports
+            .iter()
+            .max_by(|a, b| a.max_deviation_mm.total_cmp(&b.max_deviation_mm))
+    }
+
+    pub fn max_deviation_mm(&self) -> f64 {
+        self.worst().map_or(0.0, |r| r.max_deviation_mm)
+    }
+
+    pub fn within_tolerance(&self) -> bool {
+        self.reports.iter().all(|r| r.within_tolerance)
+    }
+}
+
+/// Share of the tolerance the fit aims at; the rest is left for the writers' rounding.
+const FIT_SHARE: f64 = 0.95;
+
+/// The rounding deviation of a fitted contour for each format, certified.
+fn rounding(fitted: &Contour, formats: &[Format], decimals: u32, tol: f64) -> f64 {
+    formats
+        .iter()
+        .map(|f| {
+            let read = match f {
+                Format::Svg => write::svg::svg_as_read(fitted, decimals),
+                Format::Gcode => write::gcode::gcode_as_read(fitted, decimals),
+            };
+            match read {
+                Ok(r) => measure::hausdorff(&fitted.segments, &r.segments, 1e-3 * tol).bound,
+                // A contour the format cannot hold is reported by the writer itself.
+                Err(_) => 0.0,
+            }
+        })
+        .fold(0.0, f64::max)
+}
+
+fn fit_one(c: &Contour, target: Target, tol: Tolerance, formats: &[Format], decimals: u32) -> (Contour, ContourReport) {
+    let t = tol.mm();
+    let mut share = FIT_SHARE;
+    loop {
+        let budget = Tolerance::new((share * t).max(crate::geom::MIN_TOLERANCE_MM)).unwrap_or(tol);
+        let f = fit(c, target, budget);
+        let r = rounding(&f.contour, formats, decimals, t);
+        let total = f.deviation.bound + r;
+        if total <= t || share < 0.5 {
+            let report = ContourReport {
+                source: c.source.clone(),
+                closed: c.closed,
+                segments_in: SegmentCounts::of(&c.segments),
+                segments_out: SegmentCounts::of(&f.contour.segments),
+                max_deviation_mm: total,
+                fit_deviation_mm: f.deviation.bound,
+                rounding_mm: r,
+                at: f.deviation.at,
+                within_tolerance: total <= t,
+            };
+            return (f.contour, report);
+        }
+        share *= 0.7;
+    }
+}
+
+/// Fit every contour (in parallel, results in input order), with the rounding of `formats`
+/// counted in each contour's deviation. `progress` is called once per finished contour.
+pub fn fit_outline(
+    outline: &Outline,
+    target: Target,
+    tol: Tolerance,
+    formats: &[Format],
+    progress: &(dyn Fn() + Sync),
+) -> FittedOutline {
+    let decimals = decimals_for(tol);
+    let (contours, reports) = outline
+        .contours
+        .par_iter()
+        .map(|c| {
+            let r = fit_one(c, target, tol, formats, decimals);
+            progress();
+            r
+        })
+        .unzip();
+    FittedOutline {
+        target,
+        contours,
+        reports,
+    }
+}
+
+/// The convert report (field names are part of the interface, see DESIGN.md).
+#[derive(Clone, Debug, Serialize)]
+pub struct ConvertReport {
+    pub tolerance_mm: f64,
+    pub target: String,
+    pub decimals: u32,
+    /// Contours read plus items skipped: `contours_in = contours_out + skipped.len()`.
+    pub contours_in: usize,
+    pub contours_out: usize,
+    pub skipped: Vec<Skipped>,
+    pub segments_in: SegmentCounts,
+    pub segments_out: SegmentCounts,
+    pub max_deviation_mm: f64,
+    pub at: [f64; 2],
+    pub worst_contour: Option<Source>,
+    pub within_tolerance: bool,
+    pub contours: Vec<ContourReport>,
+    pub warnings: Vec<String>,
+    /// The G-code output's own fit (lines, or arcs when the target is arcs), when written.
+    pub gcode: Option<GcodeReport>,
+    /// The preparation stage's report, when any step ran.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub prep: Option<serde_json::Value>,
+}
+
+/// The part of the report that covers the G-code file.
+#[derive(Clone, Debug, Serialize)]
+pub struct GcodeReport {
+    pub target: String,
+    pub segments_out: SegmentCounts,
+    pub max_deviation_mm: f64,
+    pub at: [f64; 2],
+    pub within_tolerance: bool,
+}
+
+impl GcodeReport {
+    pub fn of(f: &FittedOutline) -> GcodeReport {
+        let mut segs = SegmentCounts::default();
+        f.reports.iter().for_each(|r| segs.merge(&r.segments_out));
+        GcodeReport {
+            target: f.target.name().to_string(),
+            segments_out: segs,
+            max_deviation_mm: f.max_deviation_mm(),
+            at: f.worst().map_or([0.0, 0.0], |r| r.at),
+            within_tolerance: f.within_tolerance(),
+        }
+    }
+}
+
+impl ConvertReport {
+    /// The report of a fitted outline (`fitted` is `None` for the exact target, where nothing
+    /// is approximated).
+    pub fn new(outline: &Outline, tol: Tolerance, target_name: &str, fitted: Option<&FittedOutline>) -> ConvertReport {
+        let mut segments_in = SegmentCounts::default();
+        let mut segments_out = SegmentCounts::default();
+        let contours: Vec<ContourReport> = match fitted {
+            Some(f) => f.reports.clone(),
+            None => outline
+                .contours
+                .iter()
+                .map(|c| {
+                    let counts = SegmentCounts::of(&c.segments);
+                    let at = c.start().map_or([0.0, 0.0], |p| [p.x, p.y]);
+                    ContourReport {
+                        source: c.source.clone(),
+                        closed: c.closed,
+                        segments_in: counts,
+                        segments_out: counts,
+                        max_deviation_mm: 0.0,
+                        fit_deviation_mm: 0.0,
+                        rounding_mm: 0.0,
+                        at,
+                        within_tolerance: true,
+                    }
+                })
+                .collect(),
+        };
+        for r in &contours {
+            segments_in.merge(&r.segments_in);
+            segments_out.merge(&r.segments_out);
+        }
+        let worst = contours
+            .iter()
+            .max_by(|a, b| a.max_deviation_mm.total_cmp(&b.max_deviation_mm));
+        ConvertReport {
+            tolerance_mm: tol.mm(),
+            target: target_name.to_string(),
+            decimals: decimals_for(tol),
+            contours_in: outline.contours.len() + outline.skipped.len(),
+            contours_out: contours.len(),
+            skipped: outline.skipped.clone(),
+            segments_in,
+            segments_out,
+            max_deviation_mm: worst.map_or(0.0, |w| w.max_deviation_mm),
+            at: worst.map_or([0.0, 0.0], |w| w.at),
+            worst_contour: worst.map(|w| w.source.clone()),
+            within_tolerance: contours.iter().all(|c| c.within_tolerance),
+            contours,
+            warnings: outline.warnings.clone(),
+            gcode: None,
+            prep: None,
+        }
+    }
+
+    /// Whether anything was skipped because it was broken (bad input).
+    pub fn has_invalid(&self) -> bool {
+        self.skipped.iter().any(|s| s.kind == SkipKind::Invalid)
+    }
+
+    /// Overall verdict: every output within tolerance.
+    pub fn all_within_tolerance(&self) -> bool {
+        self.within_tolerance && self.gcode.as_ref().is_none_or(|g| g.within_tolerance)
+    }
+}
