@@ -609,6 +609,30 @@ mod tests {
     }
 
     #[test]
+    fn arbitrary_text_never_panics() {
+        // Random lines over the characters the reader reacts to: every outcome must be a value.
+        let alphabet: Vec<char> = "GXYZIJRNMF0123456789.-+ ();%\n\tg23e€".chars().collect();
+        let mut state = 0x2545_F491_4F6C_DD1Du64;
+        let mut read_ok = 0;
+        for _ in 0..3000 {
+            let text: String = (0..40)
+                .map(|_| {
+                    // xorshift64 (Marsaglia, "Xorshift RNGs", J. Stat. Softw. 8(14), 2003)
+                    state ^= state << 13;
+                    state ^= state >> 7;
+                    state ^= state << 17;
+                    alphabet[(state % alphabet.len() as u64) as usize]
+                })
+                .collect();
+            read_ok += usize::from(read_gcode("fuzz.nc", &text).is_ok());
+        }
+        assert!(read_ok < 3000); // most random text is rejected, with an error value
+        // Trailing points and leading signs are plain decimals (RS274NGC numbers).
+        let o = read_gcode("n.nc", "G0 X5. Y-.5\nG1 X+6\n").unwrap();
+        assert_abs_diff_eq!(o.contours[0].segments[0].start().y, 0.5, epsilon = 1e-15);
+    }
+
+    #[test]
     fn empty_and_rapid_only_programs_give_an_empty_outline_with_a_warning() {
         for text in ["", "(nothing)\n", "G21 G90\nG0 X10 Y10\nG0 Z5\nM2\n"] {
             let o = read_gcode("e.nc", text).unwrap();

@@ -4,7 +4,8 @@
 //! the G-code and the contours agree point for point. The page (viewBox, and width/height in `mm`
 //! with the same numbers, so the viewBox scale is exactly 1) spans from the origin, or from the
 //! artwork's minimum where that is negative, to the artwork's maximum, plus a margin of one
-//! stroke width and the rounding h on every side, so no stroke is clipped. Artwork in the
+//! stroke width and two units of the last decimal on every side (the page origin, the page size
+//! and the artwork are each rounded by at most half a unit), so no stroke is clipped. Artwork in the
 //! positive quadrant therefore reads back at the same millimetre coordinates with any SVG reader.
 //!
 //! **Path data.** `M`, `L`, `Q`, `C`, `A` (rx = ry, rotation 0, large-arc 0) and `Z` for a closed
@@ -139,7 +140,7 @@ pub fn svg_document(contours: &[Contour], opts: &SvgWriteOptions) -> Result<Stri
         .filter_map(|c| c.bounding_box())
         .reduce(|a, b| a.union(b))
         .unwrap_or(Rect::ZERO);
-    let margin = opts.stroke_mm + 0.5 * 10f64.powi(-(d as i32));
+    let margin = opts.stroke_mm + 2.0 * 10f64.powi(-(d as i32));
     let (x0, y0) = ((bbox.x0 - margin).min(0.0), (bbox.y0 - margin).min(0.0));
     let (x1, y1) = ((bbox.x1 + margin).max(0.0), (bbox.y1 + margin).max(0.0));
     let (w, h) = (fixed(x1 - x0, d), fixed(y1 - y0, d));
@@ -240,7 +241,8 @@ fn escape(s: &str) -> String {
 /// each arc piece rebuilt from its rounded end points and rounded radius by the SVG end-point
 /// rules ([`svg_arc_to_center`]), exactly as a reader does (an arc whose rounded end points
 /// coincide is omitted, one with a zero rounded radius is a line; `Z` adds a closing line when
-/// the rounded end is not the rounded start). Fails where [`svg_document`] fails.
+/// the rounded end is not the rounded start). A contour smaller than the rounding step can
+/// come back with no segments at all. Fails where [`svg_document`] fails.
 pub fn svg_as_read(contour: &Contour, decimals: u32) -> Result<Contour, WriteError> {
     validate(&SvgWriteOptions {
         decimals,
