@@ -626,7 +626,8 @@ mod tests {
                 .collect();
             read_ok += usize::from(read_gcode("fuzz.nc", &text).is_ok());
         }
-        assert!(read_ok < 3000); // most random text is rejected, with an error value
+        // Most random text is rejected, with an error value.
+        assert!(read_ok < 3000);
         // Trailing points and leading signs are plain decimals (RS274NGC numbers).
         let o = read_gcode("n.nc", "G0 X5. Y-.5\nG1 X+6\n").unwrap();
         assert_abs_diff_eq!(o.contours[0].segments[0].start().y, 0.5, epsilon = 1e-15);

@@ -6,7 +6,8 @@
 //! absolute §3.5.17, XY plane §3.5.6), `M3 S…` only when a spindle speed is given, and per
 //! contour: `G0` to safe Z, `G0` to the start, `G1` plunge to cut Z at the plunge rate, the cut at
 //! the feed rate, `G0` back to safe Z. The end lifts the tool, stops the spindle (`M5`) and ends
-//! the program (`M2`). No cutting happens during `G0` (§3.5.3 note in REFERENCES §7).
+//! the program (`M2`). `G0` moves only travel, never cut (NISTIR 6556: no cutting is expected
+//! during G0).
 //!
 //! **Frames.** Contours are in mm with y down; the machine's y points up: y_m = −y. Mirroring
 //! reverses the sense of turning, so an arc with positive sweep in y-down coordinates (from +x
