@@ -1,30 +1,36 @@
-//! Helpers shared by the integration tests: a seeded random source and dense distance checks.
-#![allow(dead_code)]
+//! Shared test helpers: a seeded generator, random line-and-arc contours and a sampled
+//! two-sided (Hausdorff) distance between contours.
+#![allow(dead_code)] // each test file uses its own subset
 
-use kurbo::{ParamCurveNearest, Point};
-use ratline::geom::Segment;
+use std::f64::consts::{PI, TAU};
 
-/// xorshift64* (Vigna, "An experimental exploration of Marsaglia's xorshift generators",
-/// ACM TOMS 2016): deterministic test data without a dependency.
+use kurbo::{Line, ParamCurve, ParamCurveNearest, Point, Vec2};
+use ratline::geom::{CircularArc, Contour, Segment, Source};
+
+/// SplitMix64 (Steele, Lea, Flood, "Fast splittable pseudorandom number generators", OOPSLA
+/// 2014): a small seeded generator, so the tests need no extra dependency.
 pub struct Rng(u64);
 
 impl Rng {
     pub fn new(seed: u64) -> Rng {
-        Rng(seed.wrapping_mul(0x9E37_79B9_7F4A_7C15) | 1)
+        Rng(seed)
     }
 
     pub fn next_u64(&mut self) -> u64 {
-        let mut x = self.0;
-        x ^= x >> 12;
-        x ^= x << 25;
-        x ^= x >> 27;
-        self.0 = x;
-        x.wrapping_mul(0x2545_F491_4F6C_DD1D)
+        self.0 = self.0.wrapping_add(0x9E37_79B9_7F4A_7C15);
+        let mut z = self.0;
+        z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
+        z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
+        z ^ (z >> 31)
     }
 
-    /// Uniform in [lo, hi).
-    pub fn range(&mut self, lo: f64, hi: f64) -> f64 {
-        lo + (hi - lo) * ((self.next_u64() >> 11) as f64 / (1u64 << 53) as f64)
+    /// Uniform in [0, 1).
+    pub fn unit(&mut self) -> f64 {
+        (self.next_u64() >> 11) as f64 / (1u64 << 53) as f64
+    }
+
+    pub fn range(&mut self, a: f64, b: f64) -> f64 {
+        a + (b - a) * self.unit()
     }
 
     pub fn point(&mut self, lo: f64, hi: f64) -> Point {
@@ -34,6 +40,108 @@ impl Rng {
     pub fn bool(&mut self) -> bool {
         self.next_u64() & 1 == 1
     }
+
+    /// Log-uniform in [a, b].
+    pub fn log_range(&mut self, a: f64, b: f64) -> f64 {
+        (a.ln() + (b.ln() - a.ln()) * self.unit()).exp()
+    }
+}
+
+/// What random contours may contain.
+pub struct Shape {
+    pub min_radius: f64,
+    pub max_radius: f64,
+    pub max_line: f64,
+    pub segments: usize,
+}
+
+/// A contour of random lines and arcs (radii log-uniform, sweeps up to a full turn either
+/// way), half of the time tangent-continuous, closed by a final line when `closed`.
+pub fn random_contour(rng: &mut Rng, shape: &Shape, closed: bool, index: usize) -> Contour {
+    let mut pen = Point::new(rng.range(0.0, 200.0), rng.range(0.0, 200.0));
+    let start = pen;
+    let mut heading = rng.range(0.0, TAU);
+    let mut segs = Vec::new();
+    for _ in 0..shape.segments {
+        if rng.unit() < 0.5 {
+            heading = rng.range(0.0, TAU);
+        }
+        if rng.unit() < 0.3 {
+            let e = pen + rng.range(0.01, shape.max_line) * Vec2::from_angle(heading);
+            segs.push(Segment::Line(Line::new(pen, e)));
+            pen = e;
+        } else {
+            let r = rng.log_range(shape.min_radius, shape.max_radius);
+            let sweep =
+                rng.range(0.5f64.to_radians(), TAU) * if rng.unit() < 0.5 { 1.0 } else { -1.0 };
+            // Tangent along `heading`: the centre is a quarter turn from it, on the turning side.
+            let to_centre = heading + sweep.signum() * 0.5 * PI;
+            let center = pen + r * Vec2::from_angle(to_centre);
+            let a = CircularArc {
+                center,
+                radius: r,
+                start_angle: to_centre + PI,
+                sweep,
+            };
+            pen = a.eval(1.0);
+            heading += sweep;
+            segs.push(Segment::Arc(a));
+        }
+    }
+    if closed {
+        segs.push(Segment::Line(Line::new(pen, start)));
+    }
+    Contour::new(
+        segs,
+        closed,
+        Source::new("random.svg", format!("#shape-{index}"), 0),
+    )
+}
+
+/// The contour moved by `v` (exactly: lines and arcs only).
+pub fn shifted(c: &Contour, v: Vec2) -> Contour {
+    let segs = c
+        .segments
+        .iter()
+        .map(|s| match *s {
+            Segment::Line(l) => Segment::Line(Line::new(l.p0 + v, l.p1 + v)),
+            Segment::Arc(a) => Segment::Arc(CircularArc {
+                center: a.center + v,
+                ..a
+            }),
+            other => panic!("shifted: lines and arcs only, got {other:?}"),
+        })
+        .collect();
+    Contour::new(segs, c.closed, c.source.clone())
+}
+
+/// Points along every segment: `n` equal parameter steps per segment.
+pub fn samples(segs: &[Segment], n: usize) -> Vec<Point> {
+    segs.iter()
+        .flat_map(|s| (0..=n).map(move |i| s.eval(i as f64 / n as f64)))
+        .collect()
+}
+
+/// Distance from `p` to the nearest of `segs` (exact for lines and arcs).
+pub fn distance_to(p: Point, segs: &[Segment]) -> f64 {
+    segs.iter()
+        .map(|s| s.nearest(p).0)
+        .fold(f64::INFINITY, f64::min)
+}
+
+/// The sampled two-sided distance between two contours: the largest distance from a sample of
+/// either to the other (a lower bound of the Hausdorff distance, REFERENCES §5, that converges
+/// to it as `n` grows).
+pub fn hausdorff(a: &[Segment], b: &[Segment], n: usize) -> f64 {
+    let ab = samples(a, n)
+        .into_iter()
+        .map(|p| distance_to(p, b))
+        .fold(0.0, f64::max);
+    let ba = samples(b, n)
+        .into_iter()
+        .map(|p| distance_to(p, a))
+        .fold(0.0, f64::max);
+    ab.max(ba)
 }
 
 /// The distance from p to a segment, computed independently of ratline's own solvers: kurbo's
