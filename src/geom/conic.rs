@@ -82,7 +82,10 @@ impl Conic {
         })
     }
 
-    /// A conic from homogeneous control points (w·x, w·y, w), each w > 0.
+    /// A conic from homogeneous control points (w·x, w·y, w), each w > 0, normalised to
+    /// standard form. Points already in standard form (end weights exactly 1) are kept bit for
+    /// bit: projecting and re-weighting the middle point would round, so `homogeneous()` and
+    /// `from_homogeneous` round-trip exactly.
     pub fn from_homogeneous(h: [Vector3<f64>; 3]) -> Result<Conic, GeomError> {
         if !h.iter().all(|v| v.iter().all(|c| c.is_finite())) {
             return Err(GeomError::NonFinite);
@@ -91,6 +94,9 @@ impl Conic {
             return Err(GeomError::NonPositiveWeight);
         }
         let p = h.map(|v| Point::new(v.x / v.z, v.y / v.z));
+        if h[0].z == 1.0 && h[2].z == 1.0 && p.iter().all(|&q| finite(q)) {
+            return Ok(Conic { h });
+        }
         Conic::from_weighted(p, h.map(|v| v.z))
     }
 
