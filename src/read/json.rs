@@ -305,13 +305,22 @@ impl Reader<'_> {
 
     fn skipped(&self, v: &Value, path: &str) -> Result<Skipped, InputError> {
         let m = self.object(v, path, "a skipped item")?;
-        self.known_fields(m, path, &["source", "reason"])?;
-        Ok(Skipped {
-            source: self.source(self.field(m, path, "source")?, &key(path, "source"))?,
-            reason: self
-                .string(self.field(m, path, "reason")?, &key(path, "reason"))?
-                .to_string(),
-        })
+        self.known_fields(m, path, &["source", "reason", "kind"])?;
+        let source = self.source(self.field(m, path, "source")?, &key(path, "source"))?;
+        let reason = self
+            .string(self.field(m, path, "reason")?, &key(path, "reason"))?
+            .to_string();
+        match m.get("kind") {
+            None => Ok(Skipped::hidden(source, reason)),
+            Some(k) => match self.string(k, &key(path, "kind"))? {
+                "hidden" => Ok(Skipped::hidden(source, reason)),
+                "invalid" => Ok(Skipped::invalid(source, reason)),
+                other => Err(self.err(
+                    &key(path, "kind"),
+                    format!("unknown kind '{other}' (expected \"hidden\" or \"invalid\")"),
+                )),
+            },
+        }
     }
 
     fn contour(&self, v: &Value, path: &str) -> Result<Contour, InputError> {

@@ -194,10 +194,10 @@ mod tests {
                 true,
                 Source::new("a \"quoted\".svg", "#ring", 2),
             )],
-            skipped: vec![Skipped {
-                source: Source::new("a.svg", "image[1]", 0),
-                reason: "raster image".into(),
-            }],
+            skipped: vec![Skipped::hidden(
+                Source::new("a.svg", "image[1]", 0),
+                "raster image",
+            )],
             warnings: vec![],
         }
     }
