@@ -30,7 +30,9 @@ pub enum Format {
 /// Decimals for written numbers: the fewest with √2/2·10⁻ᵈ ≤ tolerance/100, at least 4
 /// (0.1 µm, finer than any machine; common practice, no source), at most 9.
 pub fn decimals_for(tol: Tolerance) -> u32 {
-    let d = (std::f64::consts::FRAC_1_SQRT_2 * 100.0 / tol.mm()).log10().ceil();
+    let d = (std::f64::consts::FRAC_1_SQRT_2 * 100.0 / tol.mm())
+        .log10()
+        .ceil();
     (d as i64).clamp(4, 9) as u32
 }
 
@@ -98,7 +100,13 @@ fn rounding(fitted: &Contour, formats: &[Format], decimals: u32, tol: f64) -> f6
         .fold(0.0, f64::max)
 }
 
-fn fit_one(c: &Contour, target: Target, tol: Tolerance, formats: &[Format], decimals: u32) -> (Contour, ContourReport) {
+fn fit_one(
+    c: &Contour,
+    target: Target,
+    tol: Tolerance,
+    formats: &[Format],
+    decimals: u32,
+) -> (Contour, ContourReport) {
     let t = tol.mm();
     let mut share = FIT_SHARE;
     loop {
@@ -202,7 +210,12 @@ impl GcodeReport {
 impl ConvertReport {
     /// The report of a fitted outline (`fitted` is `None` for the exact target, where nothing
     /// is approximated).
-    pub fn new(outline: &Outline, tol: Tolerance, target_name: &str, fitted: Option<&FittedOutline>) -> ConvertReport {
+    pub fn new(
+        outline: &Outline,
+        tol: Tolerance,
+        target_name: &str,
+        fitted: Option<&FittedOutline>,
+    ) -> ConvertReport {
         let mut segments_in = SegmentCounts::default();
         let mut segments_out = SegmentCounts::default();
         let contours: Vec<ContourReport> = match fitted {
@@ -263,4 +276,115 @@ impl ConvertReport {
     pub fn all_within_tolerance(&self) -> bool {
         self.within_tolerance && self.gcode.as_ref().is_none_or(|g| g.within_tolerance)
     }
+}
+
+/// What a convert job should produce.
+#[derive(Clone, Debug)]
+pub struct JobOptions {
+    /// `None` for the exact outline (no fitting).
+    pub target: Option<Target>,
+    pub tolerance: Tolerance,
+    /// Write the cutter SVG.
+    pub svg: bool,
+    /// Write the result as ratline JSON outlines.
+    pub json: bool,
+    /// Write G-code with these settings (its header gets the tolerance and deviation added).
+    pub gcode: Option<write::gcode::GcodeOptions>,
+}
+
+/// A finished job: the report, the texts of the requested files, and the fitted contours.
+#[derive(Debug)]
+pub struct JobResult {
+    pub report: ConvertReport,
+    pub svg: Option<String>,
+    pub json: Option<String>,
+    pub gcode: Option<String>,
+    pub fitted: Option<FittedOutline>,
+}
+
+/// Run a convert job on an outline: fit, measure (rounding included), write into memory.
+pub fn run_job(
+    outline: &Outline,
+    job: &JobOptions,
+    progress: &(dyn Fn() + Sync),
+) -> Result<JobResult, write::WriteError> {
+    let tol = job.tolerance;
+    let decimals = decimals_for(tol).min(write::MAX_DECIMALS);
+    let main_formats: Vec<Format> = [
+        (job.svg, Format::Svg),
+        (
+            job.gcode.is_some() && job.target == Some(Target::Arcs),
+            Format::Gcode,
+        ),
+    ]
+    .iter()
+    .filter(|(on, _)| *on)
+    .map(|(_, f)| *f)
+    .collect();
+    let fitted = job
+        .target
+        .map(|t| fit_outline(outline, t, tol, &main_formats, progress));
+    let name = job.target.map_or("exact", |t| t.name());
+    let mut report = ConvertReport::new(outline, tol, name, fitted.as_ref());
+    let svg = match (&fitted, job.svg) {
+        (Some(f), true) => Some(write::svg::svg_document(
+            &f.contours,
+            &write::svg::SvgWriteOptions {
+                decimals,
+                ..Default::default()
+            },
+        )?),
+        _ => None,
+    };
+    let json = job.json.then(|| {
+        let out = match &fitted {
+            Some(f) => Outline {
+                contours: f.contours.clone(),
+                skipped: outline.skipped.clone(),
+                warnings: outline.warnings.clone(),
+            },
+            None => outline.clone(),
+        };
+        write::json::outline_to_json(&out)
+    });
+    let gcode = match &job.gcode {
+        Some(g) => {
+            let lines;
+            let gfit = match (&fitted, job.target) {
+                (Some(f), Some(Target::Arcs)) => f,
+                _ => {
+                    lines = fit_outline(outline, Target::Lines, tol, &[Format::Gcode], progress);
+                    &lines
+                }
+            };
+            let gr = GcodeReport::of(gfit);
+            let mut opts = g.clone();
+            opts.decimals = decimals.max(write::gcode::MIN_GCODE_DECIMALS);
+            opts.header.push(format!(
+                "tolerance {} mm, fitted to {}",
+                tol.mm(),
+                gr.target
+            ));
+            opts.header.push(format!(
+                "certified maximum deviation {:.6} mm ({})",
+                gr.max_deviation_mm,
+                if gr.within_tolerance {
+                    "within tolerance"
+                } else {
+                    "OVER TOLERANCE"
+                }
+            ));
+            let text = write::gcode::gcode_program(&gfit.contours, &opts)?;
+            report.gcode = Some(gr);
+            Some(text)
+        }
+        None => None,
+    };
+    Ok(JobResult {
+        report,
+        svg,
+        json,
+        gcode,
+        fitted,
+    })
 }

@@ -2,10 +2,12 @@
 //! primitives a cutter or engraver accepts within a tolerance in millimetres, with the true
 //! deviation measured and certified.
 
-pub mod error;
+pub mod cli;
 pub mod convert;
+pub mod error;
 pub mod fit;
 pub mod geom;
+pub mod inspect;
 pub mod measure;
 pub mod read;
 pub mod write;

@@ -68,7 +68,13 @@ pub fn convert_summary(r: &ConvertReport, p: &Paint) -> String {
         r.tolerance_mm,
         r.decimals
     );
-    let _ = writeln!(s, "  contours   {} in, {} out, {} skipped", r.contours_in, r.contours_out, r.skipped.len());
+    let _ = writeln!(
+        s,
+        "  contours   {} in, {} out, {} skipped",
+        r.contours_in,
+        r.contours_out,
+        r.skipped.len()
+    );
     let _ = writeln!(s, "  segments   in: {}", counts(&r.segments_in));
     let _ = writeln!(s, "             out: {}", counts(&r.segments_out));
     let _ = writeln!(
@@ -95,9 +101,16 @@ pub fn convert_summary(r: &ConvertReport, p: &Paint) -> String {
     let mut worst: Vec<_> = r.contours.iter().collect();
     worst.sort_by(|a, b| b.max_deviation_mm.total_cmp(&a.max_deviation_mm));
     if !worst.is_empty() {
-        let _ = writeln!(s, "  worst contours (certified deviation, of which rounding):");
+        let _ = writeln!(
+            s,
+            "  worst contours (certified deviation, of which rounding):"
+        );
         for c in worst.iter().take(5) {
-            let _ = writeln!(s, "    {:.6} mm ({:.6})  {}", c.max_deviation_mm, c.rounding_mm, c.source);
+            let _ = writeln!(
+                s,
+                "    {:.6} mm ({:.6})  {}",
+                c.max_deviation_mm, c.rounding_mm, c.source
+            );
         }
     }
     if !r.skipped.is_empty() {

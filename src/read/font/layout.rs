@@ -86,7 +86,8 @@ pub(crate) fn set(
                 i + 1,
                 col
             );
-            let skip = |reason: String| Skipped::invalid(Source::new(label, element.clone(), 0), reason);
+            let skip =
+                |reason: String| Skipped::invalid(Source::new(label, element.clone(), 0), reason);
             if p.glyph == 0 {
                 out.skipped.push(skip(format!(
                     "the font has no glyph for {}; not drawn (its advance is kept)",
