@@ -28,12 +28,14 @@ pub enum Format {
 }
 
 /// Decimals for written numbers: the fewest with √2/2·10⁻ᵈ ≤ tolerance/100, at least 4
-/// (0.1 µm, finer than any machine; common practice, no source), at most 9.
+/// (0.1 µm, finer than any machine; common practice, no source), at most the writers'
+/// `MAX_DECIMALS` (a nanometre). Below about 0.1 µm of tolerance the rounding takes a larger
+/// share of the budget, and the fit is tightened to leave room for it.
 pub fn decimals_for(tol: Tolerance) -> u32 {
     let d = (std::f64::consts::FRAC_1_SQRT_2 * 100.0 / tol.mm())
         .log10()
         .ceil();
-    (d as i64).clamp(4, 9) as u32
+    (d as i64).clamp(4, i64::from(write::MAX_DECIMALS)) as u32
 }
 
 /// The report for one contour.
@@ -309,7 +311,7 @@ pub fn run_job(
     progress: &(dyn Fn() + Sync),
 ) -> Result<JobResult, write::WriteError> {
     let tol = job.tolerance;
-    let decimals = decimals_for(tol).min(write::MAX_DECIMALS);
+    let decimals = decimals_for(tol);
     let main_formats: Vec<Format> = [
         (job.svg, Format::Svg),
         (

@@ -49,6 +49,12 @@ pub fn counts(c: &SegmentCounts) -> String {
     }
 }
 
+/// A length in mm with enough decimals to show it against the tolerance.
+fn mm(x: f64, tol: f64) -> String {
+    let d = ((-tol.log10()).ceil() as i64 + 3).clamp(4, 9) as usize;
+    format!("{x:.d$} mm")
+}
+
 fn verdict(ok: bool, p: &Paint) -> String {
     if ok {
         p.good("within tolerance")
@@ -79,8 +85,8 @@ pub fn convert_summary(r: &ConvertReport, p: &Paint) -> String {
     let _ = writeln!(s, "             out: {}", counts(&r.segments_out));
     let _ = writeln!(
         s,
-        "  deviation  {:.6} mm certified maximum at ({:.3}, {:.3}) mm: {}",
-        r.max_deviation_mm,
+        "  deviation  {} certified maximum at ({:.3}, {:.3}) mm: {}",
+        mm(r.max_deviation_mm, r.tolerance_mm),
         r.at[0],
         r.at[1],
         verdict(r.within_tolerance, p)
@@ -91,10 +97,10 @@ pub fn convert_summary(r: &ConvertReport, p: &Paint) -> String {
     if let Some(g) = &r.gcode {
         let _ = writeln!(
             s,
-            "  G-code     {} ({}), {:.6} mm certified maximum: {}",
+            "  G-code     {} ({}), {} certified maximum: {}",
             g.target,
             counts(&g.segments_out),
-            g.max_deviation_mm,
+            mm(g.max_deviation_mm, r.tolerance_mm),
             verdict(g.within_tolerance, p)
         );
     }
@@ -108,8 +114,10 @@ pub fn convert_summary(r: &ConvertReport, p: &Paint) -> String {
         for c in worst.iter().take(5) {
             let _ = writeln!(
                 s,
-                "    {:.6} mm ({:.6})  {}",
-                c.max_deviation_mm, c.rounding_mm, c.source
+                "    {} ({})  {}",
+                mm(c.max_deviation_mm, r.tolerance_mm),
+                mm(c.rounding_mm, r.tolerance_mm),
+                c.source
             );
         }
     }
