@@ -411,9 +411,11 @@ fn random_outline(seed: u64) -> Outline {
             .contours
             .push(Contour::new(segments, closed, source));
     }
-    outline.skipped.push(Skipped {
-        source: Source::new(rng.text(), rng.text(), 0),
-        reason: rng.text(),
+    let source = Source::new(rng.text(), rng.text(), 0);
+    outline.skipped.push(if rng.text().len().is_multiple_of(2) {
+        Skipped::hidden(source, rng.text())
+    } else {
+        Skipped::invalid(source, rng.text())
     });
     outline.warnings.push(rng.text());
     outline

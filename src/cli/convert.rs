@@ -65,7 +65,7 @@ impl Progress {
 
     pub fn tick(&self) {
         let n = self.done.fetch_add(1, Ordering::Relaxed) + 1;
-        if self.show && (n % (self.total / 100).max(1) == 0 || n == self.total) {
+        if self.show && (n.is_multiple_of((self.total / 100).max(1)) || n == self.total) {
             eprint!("\rfitting contours: {n}/{}", self.total);
             if n == self.total {
                 eprintln!();

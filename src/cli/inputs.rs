@@ -127,20 +127,17 @@ pub fn read_text(
         font::set_text(&label, &data, &opts).map_err(|e| CliError::input(e.to_string()))?;
     let cap_height_mm = match size {
         TextSize::CapHeight(c) => c,
-        TextSize::Em(_) => {
-            let h = font::set_text(
-                &label,
-                &data,
-                &TextOptions {
-                    text: "H".into(),
-                    ..opts.clone()
-                },
-            )
-            .ok()
-            .and_then(|o| o.bounding_box())
-            .map_or(0.0, |b| b.height());
-            h
-        }
+        TextSize::Em(_) => font::set_text(
+            &label,
+            &data,
+            &TextOptions {
+                text: "H".into(),
+                ..opts.clone()
+            },
+        )
+        .ok()
+        .and_then(|o| o.bounding_box())
+        .map_or(0.0, |b| b.height()),
     };
     Ok((outline, TextJob { cap_height_mm }))
 }

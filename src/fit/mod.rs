@@ -250,10 +250,10 @@ fn circular_run(arc: &CircularArc, parts: &[Part], target: Target, tol: f64, out
         return;
     }
     let max_piece = circle::max_piece_sweep(target, arc.radius, tol);
-    let mut n = (arc.sweep.abs() / max_piece - 1e-12).ceil().max(1.0) as usize;
+    let fewest = (arc.sweep.abs() / max_piece - 1e-12).ceil().max(1.0) as usize;
     // The closed form gives the fewest pieces; certification has the last word. A few more
     // pieces are tried only if a certified bound comes out above the tolerance.
-    for _ in 0..4 {
+    for n in fewest..fewest + 4 {
         let pieces: Vec<Piece> = (0..n)
             .map(|i| {
                 let (f0, f1) = (i as f64 / n as f64, (i + 1) as f64 / n as f64);
@@ -272,7 +272,6 @@ fn circular_run(arc: &CircularArc, parts: &[Part], target: Target, tol: f64, out
             out.extend(pieces);
             return;
         }
-        n += 1;
     }
     // Still over: fall back to the general greedy method on the source segments themselves.
     for p in parts {

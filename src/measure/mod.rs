@@ -186,8 +186,8 @@ pub fn directed_within(a: &[Segment], b: &[Segment], slack: f64, goal: f64) -> D
         }
     };
     let mut heap = BinaryHeap::new();
-    for seg in 0..a.len() {
-        let n = if speed[seg] == 0.0 { 1 } else { INITIAL };
+    for (seg, &v) in speed.iter().enumerate() {
+        let n = if v == 0.0 { 1 } else { INITIAL };
         let mut prev = sample(seg, 0.0, &mut best);
         for i in 1..=n {
             let next = sample(seg, i as f64 / n as f64, &mut best);
