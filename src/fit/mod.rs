@@ -208,10 +208,22 @@ fn run_position(parts: &[Part], frac: f64) -> At {
     At { segment: 0, t: 0.0 }
 }
 
+/// The exact deviation of a piece where a closed form exists (a chord over a piece that is a
+/// graph over it, `lines.rs`).
+fn closed_form(source: &Segment, out: &[Segment]) -> Option<Deviation> {
+    match out {
+        [Segment::Line(l)] if l.p0 == source.start() && l.p1 == source.end() => {
+            lines::chord_deviation(source)
+        }
+        _ => None,
+    }
+}
+
 /// Certify one piece against the exact source it replaces.
 fn certify(source: &Segment, out: Vec<Segment>, tol: f64, from: At, to: At) -> Piece {
-    let deviation =
-        measure::hausdorff_within(std::slice::from_ref(source), &out, CERT_SLACK * tol, tol);
+    let deviation = closed_form(source, &out).unwrap_or_else(|| {
+        measure::hausdorff_within(std::slice::from_ref(source), &out, CERT_SLACK * tol, tol)
+    });
     Piece {
         out,
         from,
@@ -326,7 +338,14 @@ fn greedy(s: &Segment, index: usize, target: Target, tol: f64, out: &mut Vec<Pie
     let goal = SEARCH_GOAL * tol;
     let error = |t0: f64, t1: f64| {
         let sub = s.subsegment(t0, t1);
-        measure::estimate(&[sub], &approximate(target, &sub), 16)
+        let closed = match target {
+            Target::Lines => lines::chord_deviation(&sub),
+            _ => None,
+        };
+        match closed {
+            Some(d) => d.bound,
+            None => measure::estimate(&[sub], &approximate(target, &sub), 16),
+        }
     };
     let mut t0 = 0.0;
     let mut step: f64 = 1.0;
@@ -360,53 +379,49 @@ fn greedy(s: &Segment, index: usize, target: Target, tol: f64, out: &mut Vec<Pie
     }
 }
 
-/// The largest t1 in (t0, 1] whose estimated error is within the goal, assuming the error grows
-/// with the piece: bracket from the previous step, then bisect.
+/// The largest t1 in (t0, 1] whose error is within the goal, assuming the error grows with the
+/// piece roughly as a power of its length (error ∝ hᵖ, p = 2 for chords, higher for curves): a
+/// safeguarded secant on log(error) against log(h) inside a bracket [feasible, infeasible],
+/// starting from the previous piece's length and stopping within 0.5% below the goal.
 fn search_end(t0: f64, step: f64, goal: f64, error: &impl Fn(f64, f64) -> f64) -> f64 {
-    if error(t0, 1.0) <= goal {
+    let whole = 1.0 - t0;
+    let e_whole = error(t0, 1.0);
+    if e_whole <= goal {
         return 1.0;
     }
-    let mut hi = 1.0;
-    let mut t = (t0 + step).min(1.0);
-    let mut lo;
-    if error(t0, t) <= goal {
-        lo = t;
-        while hi - lo > 0.0 {
-            let next = (t0 + 2.0 * (t - t0)).min(1.0);
-            if next >= hi {
+    let target = 0.998 * goal;
+    let (mut lo, mut e_lo) = (0.0, 0.0);
+    let (mut hi, mut e_hi) = (whole, e_whole);
+    let mut h = step.min(0.5 * whole);
+    for _ in 0..24 {
+        let e = error(t0, t0 + h);
+        if e <= goal {
+            (lo, e_lo) = (h, e);
+            if e >= 0.995 * goal {
                 break;
             }
-            if error(t0, next) <= goal {
-                lo = next;
-                t = next;
-            } else {
-                hi = next;
-                break;
-            }
-        }
-    } else {
-        hi = t;
-        loop {
-            t = t0 + 0.5 * (t - t0);
-            if t - t0 < 1e-9 {
-                return (t0 + 1e-9).min(1.0);
-            }
-            if error(t0, t) <= goal {
-                lo = t;
-                break;
-            }
-            hi = t;
-        }
-    }
-    for _ in 0..14 {
-        let mid = 0.5 * (lo + hi);
-        if error(t0, mid) <= goal {
-            lo = mid;
         } else {
-            hi = mid;
+            (hi, e_hi) = (h, e);
+        }
+        let guess = if lo > 0.0 && e_lo > 0.0 && e_hi > e_lo {
+            let p = (e_hi / e_lo).ln() / (hi / lo).ln();
+            lo * (target / e_lo).powf(1.0 / p.max(0.5))
+        } else if lo > 0.0 {
+            2.0 * lo
+        } else {
+            h * (target / e).sqrt().min(0.5)
+        };
+        let margin = 0.01 * (hi - lo);
+        h = guess.clamp(lo + margin, hi - margin);
+        if hi - lo <= 1e-12 {
+            break;
         }
     }
-    lo
+    if lo > 0.0 {
+        t0 + lo
+    } else {
+        (t0 + h.max(1e-9)).min(1.0)
+    }
 }
 
 #[cfg(test)]
