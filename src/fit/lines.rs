@@ -97,21 +97,44 @@ mod tests {
     fn closed_forms_agree_with_the_certified_measurement() {
         let cases = [
             Segment::Quad(QuadBez::new((0.0, 0.0), (5.0, 10.0), (10.0, 0.0))),
-            Segment::Cubic(CubicBez::new((0.0, 0.0), (2.0, 3.0), (7.0, -2.0), (10.0, 0.0))),
-            Segment::Cubic(CubicBez::new((0.0, 0.0), (3.0, 4.0), (6.0, 4.0), (10.0, 1.0))),
+            Segment::Cubic(CubicBez::new(
+                (0.0, 0.0),
+                (2.0, 3.0),
+                (7.0, -2.0),
+                (10.0, 0.0),
+            )),
+            Segment::Cubic(CubicBez::new(
+                (0.0, 0.0),
+                (3.0, 4.0),
+                (6.0, 4.0),
+                (10.0, 1.0),
+            )),
             Segment::Conic(
-                crate::geom::Conic::new(Point::new(0.0, 0.0), Point::new(4.0, 6.0), 0.6, Point::new(10.0, 1.0))
-                    .unwrap(),
+                crate::geom::Conic::new(
+                    Point::new(0.0, 0.0),
+                    Point::new(4.0, 6.0),
+                    0.6,
+                    Point::new(10.0, 1.0),
+                )
+                .unwrap(),
             ),
             Segment::Conic(
-                crate::geom::Conic::new(Point::new(0.0, 0.0), Point::new(4.0, 6.0), 3.0, Point::new(10.0, 1.0))
-                    .unwrap(),
+                crate::geom::Conic::new(
+                    Point::new(0.0, 0.0),
+                    Point::new(4.0, 6.0),
+                    3.0,
+                    Point::new(10.0, 1.0),
+                )
+                .unwrap(),
             ),
         ];
         for s in cases {
             let exact = chord_deviation(&s).expect("a graph over its chord");
             let m = hausdorff(&[s], &chord(&s), 1e-9);
-            assert!((exact.sampled - m.sampled).abs() < 1e-8, "{s:?}: {exact:?} vs {m:?}");
+            assert!(
+                (exact.sampled - m.sampled).abs() < 1e-8,
+                "{s:?}: {exact:?} vs {m:?}"
+            );
             assert!(exact.bound >= m.sampled);
         }
         // Shared REFERENCES §5: the quadratic (0,0),(5,10),(10,0) is 5 from its chord.

@@ -19,7 +19,9 @@
 
 use arrayvec::ArrayVec;
 use kurbo::common::{solve_quadratic, solve_quartic};
-use kurbo::{Affine, ParamCurve, ParamCurveExtrema, ParamCurveNearest, Point, Vec2};
+use kurbo::{
+    Affine, ParamCurve, ParamCurveArclen, ParamCurveExtrema, ParamCurveNearest, Point, Vec2,
+};
 use nalgebra::Vector3;
 
 use super::GeomError;
@@ -350,6 +352,25 @@ impl ParamCurveNearest for Conic {
             }
         }
         best
+    }
+}
+
+impl ParamCurveArclen for Conic {
+    /// Arc length by adaptive subdivision: a positive-weight conic arc is convex and lies in its
+    /// control triangle, so its length lies between the chord and the control polygon's length;
+    /// pieces are split until the two agree within the accuracy, and their mean is summed.
+    fn arclen(&self, accuracy: f64) -> f64 {
+        fn rec(c: &Conic, acc: f64, depth: u32) -> f64 {
+            let [p0, p1, p2] = c.points();
+            let chord = (p2 - p0).hypot();
+            let poly = (p1 - p0).hypot() + (p2 - p1).hypot();
+            if poly - chord <= acc || depth >= 24 {
+                return 0.5 * (poly + chord);
+            }
+            let (l, r) = c.split(0.5);
+            rec(&l, 0.5 * acc, depth + 1) + rec(&r, 0.5 * acc, depth + 1)
+        }
+        rec(self, accuracy.max(1e-12), 0)
     }
 }
 

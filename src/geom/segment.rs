@@ -224,7 +224,7 @@ impl Segment {
             Segment::Quad(s) => s.arclen(accuracy),
             Segment::Cubic(s) => s.arclen(accuracy),
             Segment::Arc(s) => s.speed(),
-            Segment::Conic(s) => conic_arclen(s, accuracy),
+            Segment::Conic(s) => s.arclen(accuracy),
         }
     }
 
@@ -247,23 +247,6 @@ impl Segment {
         let b = self.bounding_box();
         b.x0.is_finite() && b.x1.is_finite() && b.y0.is_finite() && b.y1.is_finite()
     }
-}
-
-/// Conic arc length by adaptive chord refinement: the chord sum over a subdivision is a lower
-/// bound and the control-polygon sum an upper bound (convexity of the control polygon of a
-/// positive-weight conic); refine until they agree within `accuracy`.
-fn conic_arclen(c: &Conic, accuracy: f64) -> f64 {
-    fn rec(c: &Conic, acc: f64, depth: u32) -> f64 {
-        let [p0, p1, p2] = c.points();
-        let chord = (p2 - p0).hypot();
-        let poly = (p1 - p0).hypot() + (p2 - p1).hypot();
-        if poly - chord <= acc || depth >= 24 {
-            return 0.5 * (poly + chord);
-        }
-        let (l, r) = c.split(0.5);
-        rec(&l, 0.5 * acc, depth + 1) + rec(&r, 0.5 * acc, depth + 1)
-    }
-    rec(c, accuracy.max(1e-12), 0)
 }
 
 #[cfg(test)]
