@@ -12,6 +12,7 @@
 //! - conic in standard form: y(t) = 2w·t(1−t)·y₁ / W(t), increasing in t(1−t), maximum
 //!   |y₁|·w/(1+w) at the shoulder point t = ½ (whose tangent is parallel to the chord, Farin,
 //!   *Curves and Surfaces for CAGD*, ch. 13).
+//!
 //! Pieces that are not graphs over their chord are measured by `measure` instead.
 
 use kurbo::common::solve_quadratic;

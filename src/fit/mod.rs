@@ -9,6 +9,9 @@
 //! every target (every machine moves straight), quadratics stay quadratics for the quadratic
 //! target and become exact cubics (degree elevation) for the cubic one.
 //!
+//! For the cubic target, consecutive cubic pieces that meet smoothly are then merged into one
+//! cubic wherever it is certified within the tolerance (`merge.rs`).
+//!
 //! Every approximated piece is measured with [`crate::measure::hausdorff`] against the exact
 //! source interval it replaces; a piece whose certified bound exceeds the tolerance is made
 //! shorter. The reported deviation is therefore a certified bound, never an estimate.
@@ -17,6 +20,7 @@ mod arcs;
 mod circle;
 mod cubic;
 mod lines;
+mod merge;
 mod quadratic;
 
 use std::f64::consts::TAU;
@@ -88,6 +92,9 @@ pub fn fit(contour: &Contour, target: Target, tol: Tolerance) -> Fitted {
             Run::Circle { arc, parts } => circular_run(&arc, &parts, target, tol, &mut pieces),
             Run::Single(i) => segment_run(&contour.segments[i], i, target, tol, &mut pieces),
         }
+    }
+    if target == Target::Cubic {
+        pieces = merge::merge_smooth(&contour.segments, pieces, SEARCH_GOAL * tol);
     }
     let start = contour.start().unwrap_or(Point::ORIGIN);
     let deviation = pieces
