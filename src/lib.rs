@@ -6,6 +6,7 @@ pub mod error;
 pub mod fit;
 pub mod geom;
 pub mod measure;
+pub mod prep;
 pub mod read;
 pub mod write;
 
