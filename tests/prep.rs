@@ -570,7 +570,7 @@ fn short_travel_against_brute_force_on_eight_points() {
             }
             for i in 0..k {
                 heap(k - 1, perm, pts, best);
-                if k % 2 == 0 {
+                if k.is_multiple_of(2) {
                     perm.swap(i, k - 1);
                 } else {
                     perm.swap(0, k - 1);

@@ -238,9 +238,9 @@ fn two_opt(cs: &[Contour], parent: &[Option<usize>], plan: &mut [Step]) -> bool 
                 continue;
             }
             plan[i..=j].reverse();
-            for k in i..=j {
-                let s = plan[k];
-                plan[k] = step(&cs[s.idx], s.idx, s.at, !s.reversed && !cs[s.idx].closed);
+            for (k, slot) in plan.iter_mut().enumerate().take(j + 1).skip(i) {
+                let s = *slot;
+                *slot = step(&cs[s.idx], s.idx, s.at, !s.reversed && !cs[s.idx].closed);
                 pos[s.idx] = k;
             }
             improved = true;
