@@ -9,6 +9,7 @@ pub mod fit;
 pub mod geom;
 pub mod inspect;
 pub mod measure;
+pub mod prep;
 pub mod read;
 pub mod write;
 
