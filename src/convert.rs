@@ -166,9 +166,13 @@ pub struct ConvertReport {
     pub tolerance_mm: f64,
     pub target: String,
     pub decimals: u32,
-    /// Contours read plus items skipped: `contours_in = contours_out + skipped.len()`.
+    /// Contours read plus items skipped:
+    /// `contours_in + contours_added_by_prep = contours_out + skipped.len()`.
     pub contours_in: usize,
     pub contours_out: usize,
+    /// Contours the preparation added (weed border and lines, kerf splits), or removed (< 0)
+    /// beyond those it lists as skipped.
+    pub contours_added_by_prep: i64,
     pub skipped: Vec<Skipped>,
     pub segments_in: SegmentCounts,
     pub segments_out: SegmentCounts,
@@ -255,6 +259,7 @@ impl ConvertReport {
             decimals: decimals_for(tol),
             contours_in: outline.contours.len() + outline.skipped.len(),
             contours_out: contours.len(),
+            contours_added_by_prep: 0,
             skipped: outline.skipped.clone(),
             segments_in,
             segments_out,

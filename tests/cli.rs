@@ -451,3 +451,50 @@ fn text_job_converts_with_cap_height() {
     let bb = outline.bounding_box().unwrap();
     assert!((bb.y0 + 50.0).abs() < 1e-6, "{bb:?}");
 }
+
+#[test]
+fn preparation_options_reach_the_output_and_the_report() {
+    // A circle of r = 10 with a 0.6 mm kerf outside: the cut circle has r = 10.3 (an offset
+    // circle is a circle, classical offset geometry), and the weed border adds one contour.
+    let dir = tmp();
+    let svg = dir.path().join("disc.svg");
+    std::fs::write(
+        &svg,
+        "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"40mm\" height=\"40mm\" viewBox=\"0 0 40 40\">\
+         <circle id=\"disc\" cx=\"20\" cy=\"20\" r=\"10\"/></svg>",
+    )
+    .unwrap();
+    let out = dir.path().join("o.json");
+    let report = dir.path().join("r.json");
+    let o = ratline(&[
+        "convert",
+        &s(&svg),
+        "--to",
+        "arcs",
+        "--kerf",
+        "0.6mm",
+        "--weed-border",
+        "5mm",
+        "-o",
+        &s(&out),
+        "--report",
+        &s(&report),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", text(&o).1);
+    let r: serde_json::Value = serde_json::from_slice(&std::fs::read(&report).unwrap()).unwrap();
+    assert_eq!(r["contours_in"], 1);
+    assert_eq!(r["contours_out"], 2);
+    assert_eq!(r["contours_added_by_prep"], 1);
+    let outline =
+        ratline::read::json::read_outline_json("o.json", &std::fs::read(&out).unwrap()).unwrap();
+    let disc = &outline.contours[0];
+    for seg in &disc.segments {
+        for i in 0..=8 {
+            let p = seg.eval(i as f64 / 8.0);
+            assert!(((p - Point::new(20.0, 20.0)).hypot() - 10.3).abs() < 1e-6);
+        }
+    }
+    // Bad preparation values are usage errors.
+    let o = ratline(&["convert", &s(&svg), "--overcut", "-1mm", "-o", &s(&out)]);
+    assert_eq!(o.status.code(), Some(2));
+}

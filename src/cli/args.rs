@@ -120,6 +120,8 @@ pub struct ConvertArgs {
     #[arg(long)]
     pub report: Option<PathBuf>,
     #[command(flatten)]
+    pub prep: PrepArgs,
+    #[command(flatten)]
     pub machine: MachineArgs,
     /// Print nothing on success (errors still go to stderr).
     #[arg(short, long)]
@@ -205,4 +207,61 @@ pub struct DemoArgs {
     /// Folder to write the sample job's files into.
     #[arg(long, default_value = "output")]
     pub out: PathBuf,
+}
+
+#[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
+pub enum KerfSideArg {
+    /// Outer contours out, holes in: the part keeps its drawn size.
+    Outside,
+    /// Outer contours in, holes out: the opening keeps its size.
+    Inside,
+    /// No offset.
+    None,
+}
+
+#[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
+pub enum DirectionArg {
+    Keep,
+    Cw,
+    Ccw,
+}
+
+#[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
+pub enum OrderArg {
+    AsDrawn,
+    InsideFirst,
+    ShortTravel,
+}
+
+/// Cut preparation, applied to the exact outline before fitting. Every step is off unless asked.
+#[derive(Args, Debug, Clone)]
+pub struct PrepArgs {
+    /// Tool width (kerf): contours move by half of it, to the side --kerf-side says.
+    #[arg(long)]
+    pub kerf: Option<Length>,
+    #[arg(long, value_enum, default_value_t = KerfSideArg::Outside)]
+    pub kerf_side: KerfSideArg,
+    /// Drag-knife blade offset, the tip's distance behind the knife axis (about 0.25mm for 45°
+    /// blades, 0.5mm for 60°; check the blade maker's figure).
+    #[arg(long)]
+    pub blade_offset: Option<Length>,
+    /// With --blade-offset: corners turning more than this many degrees get a swivel arc.
+    #[arg(long, default_value_t = 30.0)]
+    pub corner_threshold: f64,
+    /// Closed contours continue this far past their start so the cut closes.
+    #[arg(long)]
+    pub overcut: Option<Length>,
+    /// A rectangle around the whole design at this margin, for weeding.
+    #[arg(long)]
+    pub weed_border: Option<Length>,
+    /// With --weed-border: this many vertical lines splitting the waste into strips.
+    #[arg(long, default_value_t = 0)]
+    pub weed_lines: usize,
+    /// Direction of outer contours (holes run the other way).
+    #[arg(long, value_enum, default_value_t = DirectionArg::Keep)]
+    pub direction: DirectionArg,
+    /// Cut order: as drawn, every hole before the contour around it, or also the shortest
+    /// pen-up travel.
+    #[arg(long, value_enum, default_value_t = OrderArg::AsDrawn)]
+    pub order: OrderArg,
 }

@@ -4,11 +4,12 @@ use std::io::IsTerminal;
 use std::path::Path;
 use std::sync::atomic::{AtomicUsize, Ordering};
 
-use super::args::{ConvertArgs, MachineArgs, ToArg};
+use super::args::{ConvertArgs, DirectionArg, KerfSideArg, MachineArgs, OrderArg, PrepArgs, ToArg};
 use super::outputs::Outputs;
 use super::{inputs, stdout_color, CliError, Outcome};
 use crate::convert::{run_job, ConvertReport, JobOptions};
 use crate::fit::Target;
+use crate::prep::{prepare, Direction, KerfSide, Order, PrepOptions};
 use crate::write::gcode::GcodeOptions;
 use crate::write::summary::{convert_summary, Paint};
 
@@ -38,6 +39,43 @@ pub fn gcode_options(m: &MachineArgs, header: Vec<String>) -> GcodeOptions {
         header,
         ..GcodeOptions::default()
     }
+}
+
+/// The preparation options, or `None` when no step was asked for.
+pub fn prep_options(p: &PrepArgs) -> Option<PrepOptions> {
+    let mm = |l: Option<crate::geom::Length>| l.map_or(0.0, |l| l.mm());
+    let opts = PrepOptions {
+        kerf_mm: mm(p.kerf),
+        kerf_side: match (p.kerf, p.kerf_side) {
+            (None, _) | (_, KerfSideArg::None) => KerfSide::None,
+            (_, KerfSideArg::Outside) => KerfSide::Outside,
+            (_, KerfSideArg::Inside) => KerfSide::Inside,
+        },
+        blade_offset_mm: mm(p.blade_offset),
+        corner_threshold_deg: p.corner_threshold,
+        overcut_mm: mm(p.overcut),
+        weed_border_mm: mm(p.weed_border),
+        weed_lines: p.weed_lines,
+        direction: match p.direction {
+            DirectionArg::Keep => Direction::Keep,
+            DirectionArg::Cw => Direction::Cw,
+            DirectionArg::Ccw => Direction::Ccw,
+        },
+        order: match p.order {
+            OrderArg::AsDrawn => Order::AsDrawn,
+            OrderArg::InsideFirst => Order::InsideFirst,
+            OrderArg::ShortTravel => Order::ShortTravel,
+        },
+        warnings: true,
+    };
+    let any = opts.kerf_side != KerfSide::None
+        || opts.blade_offset_mm > 0.0
+        || opts.overcut_mm > 0.0
+        || opts.weed_border_mm > 0.0
+        || opts.weed_lines > 0
+        || opts.direction != Direction::Keep
+        || opts.order != Order::AsDrawn;
+    any.then_some(opts)
 }
 
 fn extension(p: &Path) -> String {
@@ -105,8 +143,17 @@ pub fn run(a: ConvertArgs) -> Result<Outcome, CliError> {
         },
         None => (false, false),
     };
-    let (outline, inputs, job) = inputs::load(&a.input)?;
+    let (read, inputs, job) = inputs::load(&a.input)?;
     Outputs::check(&inputs, &outputs)?;
+    let read_count = read.contours.len() + read.skipped.len();
+    let (outline, prep_report) = match prep_options(&a.prep) {
+        Some(p) => {
+            let done =
+                prepare(read, &p, a.tolerance).map_err(|e| CliError::usage(e.to_string()))?;
+            (done.outline, Some(done.report))
+        }
+        None => (read, None),
+    };
     let sources: Vec<String> = inputs
         .iter()
         .map(|p| format!("source: {}", p.display()))
@@ -122,6 +169,15 @@ pub fn run(a: ConvertArgs) -> Result<Outcome, CliError> {
     let result = run_job(&outline, &opts, &|| progress.tick())
         .map_err(|e| CliError::input(e.to_string()))?;
     let mut report = result.report;
+    report.contours_in = read_count;
+    report.contours_added_by_prep =
+        report.contours_out as i64 + report.skipped.len() as i64 - read_count as i64;
+    if let Some(p) = prep_report {
+        for w in &p.warnings {
+            report.warnings.push(format!("{}: {}", w.source, w.message));
+        }
+        report.prep = serde_json::to_value(&p).ok();
+    }
     if let Some(j) = &job {
         if j.cap_height_mm < MIN_VINYL_CAP_HEIGHT_MM {
             report.warnings.push(format!(

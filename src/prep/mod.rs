@@ -463,12 +463,12 @@ fn kerf_step(
             });
         }
         match off.loops.len() {
-            0 => report.removed.push(Skipped {
-                source: c.source.clone(),
-                reason: format!(
+            0 => report.removed.push(Skipped::hidden(
+                c.source.clone(),
+                format!(
                     "removed by the kerf offset: moving it {half} mm inward leaves nothing (the feature is smaller than the kerf)"
                 ),
-            }),
+            )),
             1 => {}
             n => {
                 kr.split_contours += 1;

@@ -76,10 +76,14 @@ pub fn convert_summary(r: &ConvertReport, p: &Paint) -> String {
     );
     let _ = writeln!(
         s,
-        "  contours   {} in, {} out, {} skipped",
+        "  contours   {} in, {} out, {} skipped{}",
         r.contours_in,
         r.contours_out,
-        r.skipped.len()
+        r.skipped.len(),
+        match r.contours_added_by_prep {
+            0 => String::new(),
+            n => format!(" ({n:+} by preparation)"),
+        }
     );
     let _ = writeln!(s, "  segments   in: {}", counts(&r.segments_in));
     let _ = writeln!(s, "             out: {}", counts(&r.segments_out));
@@ -102,6 +106,19 @@ pub fn convert_summary(r: &ConvertReport, p: &Paint) -> String {
             counts(&g.segments_out),
             mm(g.max_deviation_mm, r.tolerance_mm),
             verdict(g.within_tolerance, p)
+        );
+    }
+    if let Some(p) = &r.prep {
+        let steps: Vec<&str> = p["steps"]
+            .as_array()
+            .map(|a| a.iter().filter_map(|v| v.as_str()).collect())
+            .unwrap_or_default();
+        let _ = writeln!(
+            s,
+            "  prepared   {}; pen-up travel {:.1} mm before, {:.1} mm after",
+            steps.join(", "),
+            p["travel_before_mm"].as_f64().unwrap_or(0.0),
+            p["travel_after_mm"].as_f64().unwrap_or(0.0)
         );
     }
     let mut worst: Vec<_> = r.contours.iter().collect();
