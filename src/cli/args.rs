@@ -23,7 +23,7 @@ pub struct Cli {
 #[derive(Subcommand, Debug)]
 pub enum Command {
     /// Fit artwork and/or text to the primitives a machine accepts and write SVG, G-code, a report.
-    Convert(ConvertArgs),
+    Convert(Box<ConvertArgs>),
     /// Measure how far a converted file strays from its reference.
     Verify(VerifyArgs),
     /// List the contours of an input with their sizes, direction and problems.

@@ -62,7 +62,7 @@ pub fn stdout_color() -> bool {
 /// Run a parsed command line.
 pub fn run(cli: Cli) -> ExitCode {
     let result = match cli.command {
-        Command::Convert(a) => convert::run(a),
+        Command::Convert(a) => convert::run(*a),
         Command::Verify(_) => Err(CliError::usage("verify is not available in this build")),
         Command::Inspect(a) => inspect::run(a),
         Command::Demo(a) => demo::run(a),
