@@ -7,6 +7,7 @@ pub mod fit;
 pub mod geom;
 pub mod measure;
 pub mod read;
+pub mod verify;
 pub mod write;
 
 pub use error::InputError;
