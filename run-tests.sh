@@ -9,4 +9,9 @@ if ! python3 -c "import fontTools" >/dev/null 2>&1; then
     python3 -m pip install --quiet --disable-pip-version-check -r tests/requirements.txt
 fi
 
+if ! command -v chromium >/dev/null 2>&1; then
+    apt-get update -qq
+    DEBIAN_FRONTEND=noninteractive apt-get install -y -qq chromium >/dev/null
+fi
+
 cargo test --release --all-targets

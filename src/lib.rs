@@ -11,6 +11,7 @@ pub mod inspect;
 pub mod measure;
 pub mod prep;
 pub mod read;
+pub mod verify;
 pub mod write;
 
 pub use error::InputError;

@@ -498,3 +498,76 @@ fn preparation_options_reach_the_output_and_the_report() {
     let o = ratline(&["convert", &s(&svg), "--overcut", "-1mm", "-o", &s(&out)]);
     assert_eq!(o.status.code(), Some(2));
 }
+
+#[test]
+fn verify_round_trips_and_reports_mismatches() {
+    // verify(source, convert(source)) ≤ tolerance for every target, from SVG and from G-code.
+    let dir = tmp();
+    for to in ["lines", "quadratic", "cubic", "arcs"] {
+        let out = dir.path().join(format!("{to}.svg"));
+        assert_eq!(
+            ratline(&["convert", &repo(BADGE), "--to", to, "-o", &s(&out), "-q"])
+                .status
+                .code(),
+            Some(0)
+        );
+        let report = dir.path().join(format!("{to}.json"));
+        let o = ratline(&[
+            "verify",
+            &repo(BADGE),
+            &s(&out),
+            "--report",
+            &s(&report),
+            "-q",
+        ]);
+        assert_eq!(o.status.code(), Some(0), "{to}");
+        let r: serde_json::Value =
+            serde_json::from_slice(&std::fs::read(&report).unwrap()).unwrap();
+        assert!(r["hausdorff_mm"].as_f64().unwrap() <= 0.01);
+        assert_eq!(r["missing"].as_array().unwrap().len(), 0);
+    }
+    for to in ["lines", "arcs"] {
+        let nc = dir.path().join(format!("{to}.nc"));
+        assert_eq!(
+            ratline(&[
+                "convert",
+                &repo(BADGE),
+                "--to",
+                to,
+                "--gcode",
+                &s(&nc),
+                "-q"
+            ])
+            .status
+            .code(),
+            Some(0)
+        );
+        let o = ratline(&["verify", &repo(BADGE), &s(&nc), "-q"]);
+        assert_eq!(o.status.code(), Some(0), "G-code {to}");
+    }
+    // A tighter tolerance than the conversion was made for: exit 1.
+    let out = dir.path().join("cubic.svg");
+    let o = ratline(&[
+        "verify",
+        &repo(BADGE),
+        &s(&out),
+        "--tolerance",
+        "0.001mm",
+        "-q",
+    ]);
+    assert_eq!(o.status.code(), Some(1));
+    // G-code with an arc whose radii disagree (NISTIR 6556: > 0.002 mm) names its line.
+    let bad = dir.path().join("bad.nc");
+    std::fs::write(&bad, "G21 G90 G17\nG0 X0 Y0\nG1 Z-1\nG2 X10 Y0 I5.1 J0\n").unwrap();
+    let o = ratline(&["verify", &repo(BADGE), &s(&bad)]);
+    assert_eq!(o.status.code(), Some(2));
+    let e = text(&o).1;
+    assert!(e.contains("bad.nc") && e.contains("line 4"), "{e}");
+    // An empty candidate is bad input.
+    let empty = dir.path().join("empty.nc");
+    std::fs::write(&empty, "G21 G90\n").unwrap();
+    assert_eq!(
+        ratline(&["verify", &repo(BADGE), &s(&empty)]).status.code(),
+        Some(2)
+    );
+}

@@ -119,6 +119,10 @@ pub struct ConvertArgs {
     /// Write the deviation report as JSON.
     #[arg(long)]
     pub report: Option<PathBuf>,
+    /// Write a self-contained HTML page overlaying the source and the output, contour by
+    /// contour, coloured by how much of the tolerance each uses.
+    #[arg(long)]
+    pub html: Option<PathBuf>,
     #[command(flatten)]
     pub prep: PrepArgs,
     #[command(flatten)]

@@ -7,10 +7,13 @@ use std::sync::atomic::{AtomicUsize, Ordering};
 use super::args::{ConvertArgs, DirectionArg, KerfSideArg, MachineArgs, OrderArg, PrepArgs, ToArg};
 use super::outputs::Outputs;
 use super::{inputs, stdout_color, CliError, Outcome};
-use crate::convert::{run_job, ConvertReport, JobOptions};
+use crate::convert::{run_job, ConvertReport, FittedOutline, JobOptions};
 use crate::fit::Target;
+use crate::geom::Outline;
 use crate::prep::{prepare, Direction, KerfSide, Order, PrepOptions};
+use crate::verify::{verify, Align, VerifyOptions};
 use crate::write::gcode::GcodeOptions;
+use crate::write::html::verify_html;
 use crate::write::summary::{convert_summary, Paint};
 
 /// Letters below this cap height are hard to weed in vinyl (common practice, no source).
@@ -114,14 +117,14 @@ impl Progress {
 
 pub fn run(a: ConvertArgs) -> Result<Outcome, CliError> {
     let target = target_of(a.to);
-    let outputs: Vec<&Path> = [&a.output, &a.gcode, &a.report]
+    let outputs: Vec<&Path> = [&a.output, &a.gcode, &a.report, &a.html]
         .into_iter()
         .flatten()
         .map(|p| p.as_path())
         .collect();
     if outputs.is_empty() {
         return Err(CliError::usage(
-            "nothing to write: give -o OUT.svg (or OUT.json), --gcode OUT.nc or --report OUT.json",
+            "nothing to write: give -o OUT.svg (or OUT.json), --gcode OUT.nc, --report OUT.json or --html OUT.html",
         ));
     }
     let (want_svg, want_json) = match &a.output {
@@ -196,11 +199,36 @@ pub fn run(a: ConvertArgs) -> Result<Outcome, CliError> {
     if let Some(p) = &a.report {
         files.add(p, report_json(&report).into_bytes());
     }
+    if let Some(p) = &a.html {
+        files.add(
+            p,
+            overlay_page(&outline, result.fitted.as_ref(), a.tolerance).into_bytes(),
+        );
+    }
     files.write()?;
     if !a.quiet {
         print!("{}", convert_summary(&report, &Paint(stdout_color())));
     }
     Ok(outcome(&report))
+}
+
+/// The HTML page of a convert job: the output verified against the (prepared) source, so each
+/// contour is coloured by its own certified deviation.
+fn overlay_page(
+    source: &Outline,
+    fitted: Option<&FittedOutline>,
+    tolerance: crate::geom::Tolerance,
+) -> String {
+    let output = Outline {
+        contours: fitted.map_or_else(|| source.contours.clone(), |f| f.contours.clone()),
+        ..Outline::default()
+    };
+    let opts = VerifyOptions {
+        tolerance,
+        align: Align::None,
+    };
+    let report = verify(source, &output, &opts);
+    verify_html(source, &output, &report)
 }
 
 pub fn report_json(r: &ConvertReport) -> String {

@@ -8,6 +8,7 @@ mod demo;
 mod inputs;
 mod inspect;
 mod outputs;
+mod verify;
 
 use std::io::IsTerminal;
 use std::process::ExitCode;
@@ -63,7 +64,7 @@ pub fn stdout_color() -> bool {
 pub fn run(cli: Cli) -> ExitCode {
     let result = match cli.command {
         Command::Convert(a) => convert::run(*a),
-        Command::Verify(_) => Err(CliError::usage("verify is not available in this build")),
+        Command::Verify(a) => verify::run(a),
         Command::Inspect(a) => inspect::run(a),
         Command::Demo(a) => demo::run(a),
     };

@@ -1,4 +1,5 @@
-//! Writers: cutter SVG, G-code, the JSON outline format, all written atomically.
+//! Writers: cutter SVG, G-code, the JSON outline format, the report page (HTML) and the
+//! terminal summary, all files written atomically.
 //!
 //! Numbers are written with a fixed count of decimals `d`. Rust's `{:.d}` formatting rounds the
 //! exact binary value correctly, so every written coordinate differs from the computed one by at
@@ -8,6 +9,7 @@
 pub mod atomic;
 mod error;
 pub mod gcode;
+pub mod html;
 pub mod json;
 pub mod summary;
 pub mod svg;
