@@ -84,10 +84,19 @@ impl<'a> Target<'a> {
         }
     }
 
-    /// Distance from p to the set, the segment that attains it and its parameter.
-    fn nearest(&self, p: Point) -> (f64, usize, f64) {
+    /// Distance from p to the set, the segment that attains it and its parameter. `hint` is
+    /// tried first (the previous sample's nearest segment, usually the answer again), so the
+    /// bounding-box test prunes most of the others.
+    fn nearest_from(&self, p: Point, hint: usize) -> (f64, usize, f64) {
         let mut best = (f64::INFINITY, 0, 0.0);
+        if let Some(s) = self.segs.get(hint) {
+            let (d, u) = s.nearest(p);
+            best = (d, hint, u);
+        }
         for (i, s) in self.segs.iter().enumerate() {
+            if i == hint {
+                continue;
+            }
             if box_distance(self.boxes[i], p) >= best.0 {
                 continue;
             }
@@ -98,6 +107,7 @@ impl<'a> Target<'a> {
         }
         best
     }
+
 }
 
 fn box_distance(r: Rect, p: Point) -> f64 {
@@ -155,10 +165,12 @@ pub fn directed_within(a: &[Segment], b: &[Segment], slack: f64, goal: f64) -> D
     let speed: Vec<f64> = a.iter().map(|s| s.speed_bound()).collect();
     let accel: Vec<f64> = a.iter().map(|s| s.accel_bound()).collect();
     let evals = std::cell::Cell::new(0usize);
+    let hint = std::cell::Cell::new(0usize);
     let mut best = Deviation::zero(origin);
     let sample = |seg: usize, t: f64, best: &mut Deviation| -> Sample {
         let p = a[seg].eval(t);
-        let (f, s, u) = target.nearest(p);
+        let (f, s, u) = target.nearest_from(p, hint.get());
+        hint.set(s);
         evals.set(evals.get() + 1);
         if f > best.sampled {
             *best = Deviation {
@@ -220,10 +232,16 @@ pub fn directed_within(a: &[Segment], b: &[Segment], slack: f64, goal: f64) -> D
 /// each side (used to steer searches; every result is then certified by `hausdorff`).
 pub fn estimate(a: &[Segment], b: &[Segment], n: usize) -> f64 {
     fn one(a: &[Segment], b: &Target, n: usize) -> f64 {
-        a.iter()
-            .flat_map(|s| (0..=n).map(move |i| s.eval(i as f64 / n as f64)))
-            .map(|p| b.nearest(p).0)
-            .fold(0.0, f64::max)
+        let mut hint = 0;
+        let mut worst: f64 = 0.0;
+        for s in a {
+            for i in 0..=n {
+                let (d, seg, _) = b.nearest_from(s.eval(i as f64 / n as f64), hint);
+                hint = seg;
+                worst = worst.max(d);
+            }
+        }
+        worst
     }
     if a.is_empty() || b.is_empty() {
         return if a.is_empty() && b.is_empty() {
