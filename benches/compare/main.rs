@@ -686,7 +686,7 @@ fn main() -> Result<(), String> {
     } else {
         // `cargo test --all-targets` runs bench targets without `--bench`: a smoke run.
         eprintln!("compare: no --bench flag, so a smoke run (use `cargo bench --bench compare`)");
-        Args::parse_from(["compare", "--glyphs", "12", "--reps", "1", "--arcs", "200"])
+        Args::parse_from(["compare", "--glyphs", "12", "--reps", "1", "--arcs", "50"])
     };
     if args.ratline_only {
         return ratline_only(args.glyphs);
