@@ -308,7 +308,7 @@ fn circular_arcs_stay_within_one_of_the_minimum() {
                     // The lines target keeps at least three chords per turn; quadratics at most 90°.
                     Target::Lines => (sweep / (TAU / 3.0)).ceil() as usize,
                     Target::Quadratic => (sweep / (PI / 2.0)).ceil() as usize,
-                    _ => (sweep / (TAU / 3.0)).ceil() as usize,
+                    _ => (sweep / PI).ceil() as usize,
                 };
                 let n = f.contour.segments.len();
                 assert!(

@@ -218,9 +218,6 @@ fn circle_quadratics_at_minimum() {
 }
 
 #[test]
-#[ignore = "goal of the performance issue: circle cubics at the minimum; r = 0.5 mm at 0.01 mm \
-            gives 3 cubics where 2 suffice (a 180° cubic errs 0.0092 mm; ratline caps a piece at \
-            120°); the other 9 cases are at the minimum"]
 fn circle_cubics_at_minimum() {
     assert_at_minimum(&circle_counts(Target::Cubic, CircleTarget::Cubic));
 }

@@ -39,7 +39,8 @@ pub fn max_piece_sweep(target: Target, r: f64, e: f64) -> f64 {
             }
         }
         Target::Cubic => {
-            let cap = 2.0 * PI / 3.0;
+            // One cubic can follow up to half a turn; beyond that two are always better.
+            let cap = PI;
             if cubic_error(cap) <= k {
                 return cap;
             }
