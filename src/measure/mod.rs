@@ -107,7 +107,6 @@ impl<'a> Target<'a> {
         }
         best
     }
-
 }
 
 fn box_distance(r: Rect, p: Point) -> f64 {

@@ -7,6 +7,7 @@ use serde::Serialize;
 
 use super::Align;
 use crate::geom::{Skipped, Source};
+use crate::write::summary::Paint;
 
 /// One matched pair of contours and their certified deviation.
 #[derive(Clone, Debug, PartialEq, Serialize)]
@@ -78,27 +79,6 @@ impl VerifyReport {
 /// How many entries each list in the summary shows before "... and N more".
 const LIST_LIMIT: usize = 10;
 const WORST: usize = 5;
-
-struct Paint(bool);
-
-impl Paint {
-    fn wrap(&self, code: &str, s: &str) -> String {
-        if self.0 {
-            format!("\x1b[{code}m{s}\x1b[0m")
-        } else {
-            s.to_string()
-        }
-    }
-    fn good(&self, s: &str) -> String {
-        self.wrap("1;32", s)
-    }
-    fn bad(&self, s: &str) -> String {
-        self.wrap("1;31", s)
-    }
-    fn bold(&self, s: &str) -> String {
-        self.wrap("1", s)
-    }
-}
 
 fn list(out: &mut String, title: &str, items: &[Source]) {
     if items.is_empty() {

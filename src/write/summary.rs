@@ -7,7 +7,8 @@ use std::fmt::Write;
 use crate::convert::ConvertReport;
 use crate::geom::SegmentCounts;
 
-/// ANSI styling that is a no-op when colour is off.
+/// ANSI styling that is a no-op when colour is off: bold blue for good news, bold yellow for
+/// bad, which stay apart for the common colour-vision deficiencies (red–green).
 pub struct Paint(pub bool);
 
 impl Paint {
