@@ -10,12 +10,27 @@
 //! tolerance; numbers are written with enough decimals that rounding (at most √2/2·10⁻ᵈ per point)
 //! stays near 1% of it. A contour whose sum still exceeds the tolerance is refitted tighter once;
 //! whatever remains is reported, never hidden.
+//!
+//! Rounding is measured window by window on long contours: the distance from a point to a set
+//! is at most its distance to any subset, so the directed distance from a run of F to the part
+//! of R written from the same run (with a margin of neighbours) bounds the directed distance to
+//! all of R from above, and the maximum over runs (both ways) is still a certified bound on
+//! d_H(F, R), found in time linear in the contour's length rather than quadratic.
+//!
+//! Limits. A contour of more than [`MAX_SEGMENTS_PER_CONTOUR`] segments is refused before any
+//! work; the output of a job may hold at most [`JobOptions::max_segments`] segments (default
+//! [`DEFAULT_MAX_SEGMENTS`]): a tolerance far below what the machine resolves can multiply the
+//! output without bound, so fitting stops as soon as the count passes the limit and the job
+//! fails with [`JobError::TooManySegments`].
+
+use std::fmt;
+use std::sync::atomic::{AtomicUsize, Ordering};
 
 use rayon::prelude::*;
 use serde::Serialize;
 
 use crate::fit::{fit, Target};
-use crate::geom::{Contour, Outline, SegmentCounts, SkipKind, Skipped, Source, Tolerance};
+use crate::geom::{Contour, Outline, Segment, SegmentCounts, SkipKind, Skipped, Source, Tolerance};
 use crate::measure;
 use crate::write;
 
@@ -84,6 +99,89 @@ impl FittedOutline {
 /// Share of the tolerance the fit aims at; the rest is left for the writers' rounding.
 const FIT_SHARE: f64 = 0.95;
 
+/// The most segments one input contour may have (a limit against runaway inputs: no lettering
+/// or artwork contour comes near it).
+pub const MAX_SEGMENTS_PER_CONTOUR: usize = 1_000_000;
+
+/// The default limit on the segments a whole job may write (`--max-segments` raises it).
+pub const DEFAULT_MAX_SEGMENTS: usize = 5_000_000;
+
+/// Segments per window when measuring the rounding of a long contour, and the margin of
+/// neighbouring read-back segments searched on each side.
+const ROUNDING_WINDOW: usize = 256;
+const ROUNDING_MARGIN: usize = 64;
+
+/// Why a job did not finish.
+#[derive(Clone, Debug, PartialEq)]
+pub enum JobError {
+    /// A writer refused a contour.
+    Write(write::WriteError),
+    /// An input contour is longer than [`MAX_SEGMENTS_PER_CONTOUR`].
+    ContourTooLong { source: Source, segments: usize },
+    /// The output passed the job's segment limit; fitting stopped there.
+    TooManySegments {
+        limit: usize,
+        /// Segments produced when fitting stopped (at least this many would be written).
+        produced: usize,
+        /// Contours fitted by then, of `total`.
+        fitted: usize,
+        total: usize,
+    },
+}
+
+impl fmt::Display for JobError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match self {
+            JobError::Write(e) => e.fmt(f),
+            JobError::ContourTooLong { source, segments } => write!(
+                f,
+                "{source}: {segments} segments in one contour: over the limit of \
+                 {MAX_SEGMENTS_PER_CONTOUR} segments per contour"
+            ),
+            JobError::TooManySegments {
+                limit,
+                produced,
+                fitted,
+                total,
+            } => write!(
+                f,
+                "the output passed the limit of {limit} segments (--max-segments): \
+                 {produced} segments after fitting {fitted} of {total} contours; stopped. \
+                 Use a coarser --tolerance, or raise --max-segments"
+            ),
+        }
+    }
+}
+
+impl std::error::Error for JobError {}
+
+impl From<write::WriteError> for JobError {
+    fn from(e: write::WriteError) -> JobError {
+        JobError::Write(e)
+    }
+}
+
+/// A certified bound on d_H(F, R), window by window (see the module docs).
+fn windowed_hausdorff(f: &[Segment], r: &[Segment], slack: f64) -> f64 {
+    if f.len() <= ROUNDING_WINDOW || r.is_empty() {
+        return measure::hausdorff(f, r, slack).bound;
+    }
+    // R runs along F in the same order; its k-th segment was written near F's k·|F|/|R|-th.
+    let directed = |a: &[Segment], b: &[Segment]| -> f64 {
+        (0..a.len())
+            .step_by(ROUNDING_WINDOW)
+            .map(|i0| {
+                let i1 = (i0 + ROUNDING_WINDOW).min(a.len());
+                let scale = |i: usize| i * b.len() / a.len();
+                let j0 = scale(i0).saturating_sub(ROUNDING_MARGIN);
+                let j1 = (scale(i1) + ROUNDING_MARGIN).min(b.len());
+                measure::directed(&a[i0..i1], &b[j0..j1], slack).bound
+            })
+            .fold(0.0, f64::max)
+    };
+    directed(f, r).max(directed(r, f))
+}
+
 /// The rounding deviation of a fitted contour for each format, certified.
 fn rounding(fitted: &Contour, formats: &[Format], decimals: u32, tol: f64) -> f64 {
     formats
@@ -94,7 +192,7 @@ fn rounding(fitted: &Contour, formats: &[Format], decimals: u32, tol: f64) -> f6
                 Format::Gcode => write::gcode::gcode_as_read(fitted, decimals),
             };
             match read {
-                Ok(r) => measure::hausdorff(&fitted.segments, &r.segments, 1e-3 * tol).bound,
+                Ok(r) => windowed_hausdorff(&fitted.segments, &r.segments, 1e-3 * tol),
                 // A contour the format cannot hold is reported by the writer itself.
                 Err(_) => 0.0,
             }
@@ -135,29 +233,47 @@ fn fit_one(
 }
 
 /// Fit every contour (in parallel, results in input order), with the rounding of `formats`
-/// counted in each contour's deviation. `progress` is called once per finished contour.
+/// counted in each contour's deviation. `progress` is called once per finished contour. Once
+/// the output holds more than `max_segments` segments no further contour is fitted and the
+/// result is [`JobError::TooManySegments`].
 pub fn fit_outline(
     outline: &Outline,
     target: Target,
     tol: Tolerance,
     formats: &[Format],
+    max_segments: usize,
     progress: &(dyn Fn() + Sync),
-) -> FittedOutline {
+) -> Result<FittedOutline, JobError> {
     let decimals = decimals_for(tol);
-    let (contours, reports) = outline
+    let produced = AtomicUsize::new(0);
+    let results: Vec<Option<(Contour, ContourReport)>> = outline
         .contours
         .par_iter()
         .map(|c| {
+            if produced.load(Ordering::Relaxed) > max_segments {
+                return None;
+            }
             let r = fit_one(c, target, tol, formats, decimals);
+            produced.fetch_add(r.0.segments.len(), Ordering::Relaxed);
             progress();
-            r
+            Some(r)
         })
-        .unzip();
-    FittedOutline {
+        .collect();
+    let total = produced.into_inner();
+    if total > max_segments {
+        return Err(JobError::TooManySegments {
+            limit: max_segments,
+            produced: total,
+            fitted: results.iter().flatten().count(),
+            total: outline.contours.len(),
+        });
+    }
+    let (contours, reports) = results.into_iter().flatten().unzip();
+    Ok(FittedOutline {
         target,
         contours,
         reports,
-    }
+    })
 }
 
 /// The convert report (field names are part of the interface, see DESIGN.md).
@@ -297,6 +413,8 @@ pub struct JobOptions {
     pub json: bool,
     /// Write G-code with these settings (its header gets the tolerance and deviation added).
     pub gcode: Option<write::gcode::GcodeOptions>,
+    /// The most segments the job may produce per output (see [`DEFAULT_MAX_SEGMENTS`]).
+    pub max_segments: usize,
 }
 
 /// A finished job: the report, the texts of the requested files, and the fitted contours.
@@ -314,7 +432,17 @@ pub fn run_job(
     outline: &Outline,
     job: &JobOptions,
     progress: &(dyn Fn() + Sync),
-) -> Result<JobResult, write::WriteError> {
+) -> Result<JobResult, JobError> {
+    if let Some(c) = outline
+        .contours
+        .iter()
+        .find(|c| c.segments.len() > MAX_SEGMENTS_PER_CONTOUR)
+    {
+        return Err(JobError::ContourTooLong {
+            source: c.source.clone(),
+            segments: c.segments.len(),
+        });
+    }
     let tol = job.tolerance;
     let decimals = decimals_for(tol);
     let main_formats: Vec<Format> = [
@@ -330,7 +458,8 @@ pub fn run_job(
     .collect();
     let fitted = job
         .target
-        .map(|t| fit_outline(outline, t, tol, &main_formats, progress));
+        .map(|t| fit_outline(outline, t, tol, &main_formats, job.max_segments, progress))
+        .transpose()?;
     let name = job.target.map_or("exact", |t| t.name());
     let mut report = ConvertReport::new(outline, tol, name, fitted.as_ref());
     let svg = match (&fitted, job.svg) {
@@ -360,7 +489,14 @@ pub fn run_job(
             let gfit = match (&fitted, job.target) {
                 (Some(f), Some(Target::Arcs)) => f,
                 _ => {
-                    lines = fit_outline(outline, Target::Lines, tol, &[Format::Gcode], progress);
+                    lines = fit_outline(
+                        outline,
+                        Target::Lines,
+                        tol,
+                        &[Format::Gcode],
+                        job.max_segments,
+                        progress,
+                    )?;
                     &lines
                 }
             };

@@ -535,7 +535,10 @@ fn parallel_rows(dejavu: &Font, cantarell: &Font, reps: usize) -> Result<Vec<Par
             runs.push(pool.install(|| {
                 timed(
                     reps,
-                    || fit_outline(&outline, target, tol, &[], &|| {}),
+                    || {
+                        fit_outline(&outline, target, tol, &[], usize::MAX, &|| {})
+                            .expect("no segment limit")
+                    },
                     |r| r.contours.iter().map(|c| jobs::checksum(&c.segments)).sum(),
                 )
             }));
@@ -665,7 +668,8 @@ fn ratline_only(limit: Option<usize>) -> Result<(), String> {
             ..Outline::default()
         };
         let start = Instant::now();
-        let f = fit_outline(&outline, target, tol, &[], &|| {});
+        let f =
+            fit_outline(&outline, target, tol, &[], usize::MAX, &|| {}).expect("no segment limit");
         let segs: usize = f.contours.iter().map(|c| c.segments.len()).sum();
         println!(
             "{name}, {glyphs} glyphs, {} contours, {}: {segs} segments, max {:.6} mm, {} over, {}",

@@ -125,6 +125,10 @@ pub struct ConvertArgs {
     pub html: Option<PathBuf>,
     #[command(flatten)]
     pub prep: PrepArgs,
+    /// Stop with an error once an output passes this many segments (a tolerance far finer than
+    /// the machine resolves can multiply the output).
+    #[arg(long, default_value_t = crate::convert::DEFAULT_MAX_SEGMENTS, value_parser = clap::value_parser!(usize))]
+    pub max_segments: usize,
     #[command(flatten)]
     pub machine: MachineArgs,
     /// Print nothing on success (errors still go to stderr).

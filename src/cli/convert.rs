@@ -167,6 +167,7 @@ pub fn run(a: ConvertArgs) -> Result<Outcome, CliError> {
         svg: want_svg,
         json: want_json,
         gcode: a.gcode.as_ref().map(|_| gcode_options(&a.machine, sources)),
+        max_segments: a.max_segments,
     };
     let progress = Progress::new(outline.contours.len() * (1 + usize::from(a.gcode.is_some())));
     let result = run_job(&outline, &opts, &|| progress.tick())

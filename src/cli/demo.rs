@@ -9,7 +9,7 @@ use kurbo::Affine;
 
 use super::args::DemoArgs;
 use super::{stdout_color, CliError, Outcome};
-use crate::convert::{run_job, JobOptions};
+use crate::convert::{run_job, JobOptions, DEFAULT_MAX_SEGMENTS};
 use crate::fit::Target;
 use crate::geom::{Outline, Tolerance};
 use crate::read::font::{set_text, Align, TextOptions, TextSize};
@@ -79,6 +79,7 @@ pub fn run(a: DemoArgs) -> Result<Outcome, CliError> {
                 header: vec!["source: ratline demo (Marrow Creek Apiary badge)".into()],
                 ..GcodeOptions::default()
             }),
+            max_segments: DEFAULT_MAX_SEGMENTS,
         };
         let r = run_job(&outline, &job, &|| {}).map_err(|e| CliError::input(e.to_string()))?;
         let name = target.name();

@@ -55,8 +55,22 @@ impl Outputs {
         self.files.push((path.to_path_buf(), bytes));
     }
 
-    /// Write every file atomically.
+    /// Write every file atomically, after checking that every folder to write into exists, so
+    /// that a missing folder fails the job before any output is replaced.
     pub fn write(self) -> Result<(), CliError> {
+        for (p, _) in &self.files {
+            let dir = p
+                .parent()
+                .filter(|d| !d.as_os_str().is_empty())
+                .unwrap_or(Path::new("."));
+            if !dir.is_dir() {
+                return Err(CliError::input(format!(
+                    "{}: cannot write: the folder {} does not exist; nothing was written",
+                    p.display(),
+                    dir.display()
+                )));
+            }
+        }
         for (p, bytes) in &self.files {
             write_atomic(p, bytes)
                 .map_err(|e| CliError::input(format!("{}: cannot write: {e}", p.display())))?;

@@ -225,7 +225,20 @@ fn check_size(file_label: &str, place: &str, mm: f64) -> Result<(), InputError> 
         Err(InputError::at(
             file_label,
             place,
-            format!("{mm} mm: a size must be a finite number greater than 0 and at most {MAX_SIZE_MM} mm"),
+            format!(
+                "{} mm: a size must be a finite number greater than 0 and at most {MAX_SIZE_MM} mm",
+                short(mm)
+            ),
         ))
+    }
+}
+
+/// A number as a person reads it: plain when moderate, else in exponent form (1e308, not 309
+/// digits).
+fn short(v: f64) -> String {
+    if v != 0.0 && !(1e-4..1e9).contains(&v.abs()) {
+        format!("{v:e}")
+    } else {
+        format!("{v}")
     }
 }
