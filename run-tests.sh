@@ -14,4 +14,11 @@ if ! command -v chromium >/dev/null 2>&1; then
     DEBIAN_FRONTEND=noninteractive apt-get install -y -qq chromium >/dev/null
 fi
 
-cargo test --release --all-targets
+log=$(mktemp)
+trap 'rm -f "$log"' EXIT
+status=0
+cargo test --release --all-targets 2>&1 | tee "$log" || status=$?
+# One closing line over every test binary, so the total is visible at the end.
+awk '/^test result:/ { for (i = 1; i <= NF; i++) { if ($(i+1) ~ /^passed/) p += $i; if ($(i+1) ~ /^failed/) f += $i } }
+     END { printf "tests: %d passed, %d failed\n", p, f }' "$log"
+exit "$status"
