@@ -90,6 +90,7 @@ pub struct InputArgs {
     /// A variable-font axis setting such as wght=700 (repeatable).
     #[arg(long = "font-variation", value_name = "AXIS=VALUE")]
     pub font_variations: Vec<String>,
+    /// How the lines of text line up with each other.
     #[arg(long = "align", value_enum, default_value_t = AlignArg::Left)]
     pub text_align: AlignArg,
     /// Distance between baselines as a factor of the font's line height.
