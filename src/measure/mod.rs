@@ -97,7 +97,7 @@ impl<'a> Target<'a> {
             if i == hint {
                 continue;
             }
-            if box_distance(self.boxes[i], p) >= best.0 {
+            if box_distance_sq(self.boxes[i], p) >= best.0 * best.0 {
                 continue;
             }
             let (d, u) = s.nearest(p);
@@ -109,10 +109,11 @@ impl<'a> Target<'a> {
     }
 }
 
-fn box_distance(r: Rect, p: Point) -> f64 {
+/// The squared distance from p to a box (0 inside): a lower bound for every point in it.
+fn box_distance_sq(r: Rect, p: Point) -> f64 {
     let dx = (r.x0 - p.x).max(p.x - r.x1).max(0.0);
     let dy = (r.y0 - p.y).max(p.y - r.y1).max(0.0);
-    dx.hypot(dy)
+    dx * dx + dy * dy
 }
 
 struct Interval {
