@@ -108,8 +108,8 @@ pub const DEFAULT_MAX_SEGMENTS: usize = 5_000_000;
 
 /// Segments per window when measuring the rounding of a long contour, and the margin of
 /// neighbouring read-back segments searched on each side.
-const ROUNDING_WINDOW: usize = 256;
-const ROUNDING_MARGIN: usize = 64;
+const ROUNDING_WINDOW: usize = 64;
+const ROUNDING_MARGIN: usize = 16;
 
 /// Why a job did not finish.
 #[derive(Clone, Debug, PartialEq)]
