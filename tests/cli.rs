@@ -571,3 +571,29 @@ fn verify_round_trips_and_reports_mismatches() {
         Some(2)
     );
 }
+
+#[test]
+fn verify_reads_units_on_both_sides() {
+    // A 1 in square drawn in mm (25.4 mm, the international inch) and cut in inches (G20,
+    // NISTIR 6556 §3.5.7) is the same square; read as millimetres it is 25.4× too small.
+    let dir = tmp();
+    let svg = dir.path().join("square.svg");
+    std::fs::write(
+        &svg,
+        "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"40mm\" height=\"40mm\" viewBox=\"0 0 40 40\">\
+         <rect id=\"sq\" x=\"5\" y=\"5\" width=\"25.4\" height=\"25.4\"/></svg>",
+    )
+    .unwrap();
+    // The square's corners 5 mm and 30.4 mm from the origin, in inches: 5/25.4 and 30.4/25.4.
+    let inches = "G20 G90 G17\nG0 X0.19685039 Y-0.19685039\nG1 Z-0.04\nG1 X1.19685039\n\
+                  G1 Y-1.19685039\nG1 X0.19685039\nG1 Y-0.19685039\nG0 Z0.2\nM2\n";
+    let inch = dir.path().join("inch.nc");
+    std::fs::write(&inch, inches).unwrap();
+    let o = ratline(&["verify", &s(&svg), &s(&inch), "--tolerance", "0.001mm"]);
+    assert_eq!(o.status.code(), Some(0), "{}", text(&o).0);
+    // The same numbers read as millimetres: nothing matches.
+    let wrong = dir.path().join("wrong.nc");
+    std::fs::write(&wrong, inches.replace("G20", "G21")).unwrap();
+    let o = ratline(&["verify", &s(&svg), &s(&wrong)]);
+    assert_eq!(o.status.code(), Some(1));
+}
