@@ -414,16 +414,19 @@ fn failed_job_never_leaves_a_half_written_output() {
     let input_before = std::fs::read(&input).unwrap();
     let out = dir.path().join("out.svg");
     std::fs::write(&out, OLD).unwrap();
-    let o = Command::new(env!("CARGO_BIN_EXE_ratline"))
-        .arg("convert")
-        .arg(&input)
-        .arg("-o")
-        .arg(&out)
-        .arg("--gcode")
-        .arg(dir.path().join("missing-folder/out.nc"))
-        .arg("-q")
-        .output()
-        .unwrap();
+    let job = || {
+        Command::new(env!("CARGO_BIN_EXE_ratline"))
+            .arg("convert")
+            .arg(&input)
+            .arg("-o")
+            .arg(&out)
+            .arg("--gcode")
+            .arg(dir.path().join("missing-folder/out.nc"))
+            .arg("-q")
+            .output()
+            .unwrap()
+    };
+    let o = job();
     let stderr = String::from_utf8_lossy(&o.stderr);
     assert_eq!(o.status.code(), Some(2), "{stderr}");
     assert!(stderr.contains("out.nc: cannot write"), "{stderr}");
@@ -433,16 +436,7 @@ fn failed_job_never_leaves_a_half_written_output() {
     // With the folder there, the same job replaces it as a whole document that a reference SVG
     // parser (usvg) reads, every one of the 400 circles present.
     std::fs::create_dir(dir.path().join("missing-folder")).unwrap();
-    let o = Command::new(env!("CARGO_BIN_EXE_ratline"))
-        .arg("convert")
-        .arg(&input)
-        .arg("-o")
-        .arg(&out)
-        .arg("--gcode")
-        .arg(dir.path().join("missing-folder/out.nc"))
-        .arg("-q")
-        .output()
-        .unwrap();
+    let o = job();
     assert_eq!(o.status.code(), Some(0));
     let tree = usvg::Tree::from_data(&std::fs::read(&out).unwrap(), &usvg::Options::default())
         .expect("a whole SVG");

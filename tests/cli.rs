@@ -103,12 +103,11 @@ fn exit_codes_and_messages() {
     assert!(!Path::new(&out).exists(), "no output on bad input");
     // One malformed path: the rest converts, the element is reported, exit 2.
     let part = dir.path().join("part.svg");
-    std::fs::write(
+    common::write_mm_svg(
         &part,
-        "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"20mm\" height=\"20mm\" viewBox=\"0 0 20 20\">\
-         <circle id=\"ok\" cx=\"10\" cy=\"10\" r=\"5\"/><path id=\"broken\" d=\"M0,0 L5,5 X9\"/></svg>",
-    )
-    .unwrap();
+        20,
+        "<circle id=\"ok\" cx=\"10\" cy=\"10\" r=\"5\"/><path id=\"broken\" d=\"M0,0 L5,5 X9\"/>",
+    );
     let report = dir.path().join("r.json");
     let o = ratline(&["convert", &s(&part), "-o", &out, "--report", &s(&report)]);
     assert_eq!(o.status.code(), Some(2));
@@ -458,12 +457,11 @@ fn preparation_options_reach_the_output_and_the_report() {
     // circle is a circle, classical offset geometry), and the weed border adds one contour.
     let dir = tmp();
     let svg = dir.path().join("disc.svg");
-    std::fs::write(
+    common::write_mm_svg(
         &svg,
-        "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"40mm\" height=\"40mm\" viewBox=\"0 0 40 40\">\
-         <circle id=\"disc\" cx=\"20\" cy=\"20\" r=\"10\"/></svg>",
-    )
-    .unwrap();
+        40,
+        "<circle id=\"disc\" cx=\"20\" cy=\"20\" r=\"10\"/>",
+    );
     let out = dir.path().join("o.json");
     let report = dir.path().join("r.json");
     let o = ratline(&[
@@ -578,12 +576,11 @@ fn verify_reads_units_on_both_sides() {
     // NISTIR 6556 §3.5.7) is the same square; read as millimetres it is 25.4× too small.
     let dir = tmp();
     let svg = dir.path().join("square.svg");
-    std::fs::write(
+    common::write_mm_svg(
         &svg,
-        "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"40mm\" height=\"40mm\" viewBox=\"0 0 40 40\">\
-         <rect id=\"sq\" x=\"5\" y=\"5\" width=\"25.4\" height=\"25.4\"/></svg>",
-    )
-    .unwrap();
+        40,
+        "<rect id=\"sq\" x=\"5\" y=\"5\" width=\"25.4\" height=\"25.4\"/>",
+    );
     // The square's corners 5 mm and 30.4 mm from the origin, in inches: 5/25.4 and 30.4/25.4.
     let inches = "G20 G90 G17\nG0 X0.19685039 Y-0.19685039\nG1 Z-0.04\nG1 X1.19685039\n\
                   G1 Y-1.19685039\nG1 X0.19685039\nG1 Y-0.19685039\nG0 Z0.2\nM2\n";

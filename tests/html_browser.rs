@@ -2,6 +2,8 @@
 //! run-tests.sh when missing) renders the page; the screenshot must show the outline where it
 //! is, and the rendered page must contain the table. The page loads nothing from the network.
 
+mod common;
+
 use std::path::Path;
 use std::process::Command;
 
@@ -36,12 +38,11 @@ fn browser(profile: &Path) -> Command {
 fn verify_page_shows_the_outline_and_the_table() {
     let dir = tempfile::tempdir().unwrap();
     let svg = dir.path().join("ring.svg");
-    std::fs::write(
+    common::write_mm_svg(
         &svg,
-        "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"100mm\" height=\"100mm\" viewBox=\"0 0 100 100\">\
-         <circle id=\"ring\" cx=\"50\" cy=\"50\" r=\"40\"/></svg>",
-    )
-    .unwrap();
+        100,
+        "<circle id=\"ring\" cx=\"50\" cy=\"50\" r=\"40\"/>",
+    );
     let cut = dir.path().join("ring-cut.svg");
     let html = dir.path().join("ring.html");
     let run = |args: &[&str]| {

@@ -9,7 +9,7 @@ use kurbo::Affine;
 
 use super::args::DemoArgs;
 use super::{stdout_color, CliError, Outcome};
-use crate::convert::{run_job, JobOptions, DEFAULT_MAX_SEGMENTS};
+use crate::convert::{run_job, ConvertReport, JobOptions, DEFAULT_MAX_SEGMENTS};
 use crate::fit::Target;
 use crate::geom::{Outline, Tolerance};
 use crate::read::font::{set_text, Align, TextOptions, TextSize};
@@ -60,9 +60,7 @@ pub fn run(a: DemoArgs) -> Result<Outcome, CliError> {
             a.out.display()
         ))
     })?;
-    let paint = Paint(stdout_color());
-    let mut summary = String::new();
-    let mut reports = BTreeMap::new();
+    let mut reports = Vec::new();
     let mut all_ok = true;
     for target in [
         Target::Lines,
@@ -95,17 +93,16 @@ pub fn run(a: DemoArgs) -> Result<Outcome, CliError> {
             write(format!("badge-{name}.nc"), g.as_bytes())?;
         }
         all_ok &= r.report.all_within_tolerance() && !r.report.has_invalid();
-        summary.push_str(&convert_summary(&r.report, &paint));
-        summary.push('\n');
-        reports.insert(name, r.report);
+        reports.push((name, r.report));
     }
-    let json = serde_json::to_string_pretty(&reports).unwrap_or_default() + "\n";
+    let by_name: BTreeMap<&str, &ConvertReport> = reports.iter().map(|(n, r)| (*n, r)).collect();
+    let json = serde_json::to_string_pretty(&by_name).unwrap_or_default() + "\n";
     write_atomic(&a.out.join("report.json"), json.as_bytes())
         .map_err(|e| CliError::input(format!("report.json: cannot write: {e}")))?;
-    let plain = convert_summary_plain(&reports);
+    let plain = summaries(&reports, &Paint(false));
     write_atomic(&a.out.join("summary.txt"), plain.as_bytes())
         .map_err(|e| CliError::input(format!("summary.txt: cannot write: {e}")))?;
-    print!("{summary}");
+    print!("{}", summaries(&reports, &Paint(stdout_color())));
     println!("files written to {}", a.out.display());
     Ok(if all_ok {
         Outcome::Done
@@ -114,9 +111,10 @@ pub fn run(a: DemoArgs) -> Result<Outcome, CliError> {
     })
 }
 
-fn convert_summary_plain(reports: &BTreeMap<&str, crate::convert::ConvertReport>) -> String {
+/// The terminal summaries of every target, in the order they ran.
+fn summaries(reports: &[(&str, ConvertReport)], paint: &Paint) -> String {
     reports
-        .values()
-        .map(|r| convert_summary(r, &Paint(false)) + "\n")
+        .iter()
+        .map(|(_, r)| convert_summary(r, paint) + "\n")
         .collect()
 }

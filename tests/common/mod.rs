@@ -198,3 +198,12 @@ pub fn dense_hausdorff(a: &[Segment], b: &[Segment], samples: usize) -> f64 {
     };
     one(a, b, samples).max(one(b, a, (samples / 10).max(10)))
 }
+
+/// Write a small SVG drawing whose user unit is 1 mm: a `size` mm square page holding `body`.
+pub fn write_mm_svg(path: &std::path::Path, size: u32, body: &str) {
+    let doc = format!(
+        "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"{size}mm\" height=\"{size}mm\" \
+         viewBox=\"0 0 {size} {size}\">{body}</svg>"
+    );
+    std::fs::write(path, doc).expect("the test folder is writable");
+}
