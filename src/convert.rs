@@ -29,7 +29,7 @@ use std::sync::atomic::{AtomicUsize, Ordering};
 use rayon::prelude::*;
 use serde::Serialize;
 
-use crate::fit::{fit, Target};
+use crate::fit::{fit_limited, OverLimit, Target};
 use crate::geom::{Contour, Outline, Segment, SegmentCounts, SkipKind, Skipped, Source, Tolerance};
 use crate::measure;
 use crate::write;
@@ -206,12 +206,13 @@ fn fit_one(
     tol: Tolerance,
     formats: &[Format],
     decimals: u32,
-) -> (Contour, ContourReport) {
+    limit: usize,
+) -> Result<(Contour, ContourReport), OverLimit> {
     let t = tol.mm();
     let mut share = FIT_SHARE;
     loop {
         let budget = Tolerance::new((share * t).max(crate::geom::MIN_TOLERANCE_MM)).unwrap_or(tol);
-        let f = fit(c, target, budget);
+        let f = fit_limited(c, target, budget, limit)?;
         let r = rounding(&f.contour, formats, decimals, t);
         let total = f.deviation.bound + r;
         if total <= t || share < 0.5 {
@@ -226,7 +227,7 @@ fn fit_one(
                 at: f.deviation.at,
                 within_tolerance: total <= t,
             };
-            return (f.contour, report);
+            return Ok((f.contour, report));
         }
         share *= 0.7;
     }
@@ -234,8 +235,9 @@ fn fit_one(
 
 /// Fit every contour (in parallel, results in input order), with the rounding of `formats`
 /// counted in each contour's deviation. `progress` is called once per finished contour. Once
-/// the output holds more than `max_segments` segments no further contour is fitted and the
-/// result is [`JobError::TooManySegments`].
+/// the output holds more than `max_segments` segments no further contour is fitted, a contour
+/// being fitted stops where it passes what is left of the limit, and the result is
+/// [`JobError::TooManySegments`].
 pub fn fit_outline(
     outline: &Outline,
     target: Target,
@@ -250,13 +252,19 @@ pub fn fit_outline(
         .contours
         .par_iter()
         .map(|c| {
-            if produced.load(Ordering::Relaxed) > max_segments {
-                return None;
+            let left = max_segments.checked_sub(produced.load(Ordering::Relaxed))?;
+            match fit_one(c, target, tol, formats, decimals, left) {
+                Ok(r) => {
+                    produced.fetch_add(r.0.segments.len(), Ordering::Relaxed);
+                    progress();
+                    Some(r)
+                }
+                Err(e) => {
+                    // At least this many: the limit that was left, plus the one that passed it.
+                    produced.fetch_add(e.limit + 1, Ordering::Relaxed);
+                    None
+                }
             }
-            let r = fit_one(c, target, tol, formats, decimals);
-            produced.fetch_add(r.0.segments.len(), Ordering::Relaxed);
-            progress();
-            Some(r)
         })
         .collect();
     let total = produced.into_inner();

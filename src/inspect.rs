@@ -13,7 +13,7 @@
 use kurbo::Point;
 use serde::Serialize;
 
-use crate::fit::{fit, Target};
+use crate::fit::{fit_limited, Target};
 use crate::geom::{Contour, Outline, Segment, SegmentCounts, Skipped, Source, Tolerance};
 
 /// Contours smaller than this are flagged (common practice, no source).
@@ -58,7 +58,10 @@ fn crosses(a: Point, b: Point, c: Point, d: Point) -> bool {
 
 fn self_intersects(c: &Contour) -> Option<bool> {
     let tol = Tolerance::new(0.01).ok()?;
-    let flat = fit(c, Target::Lines, tol).contour;
+    // A contour that needs more chords than the crossing test takes is not flattened at all.
+    let flat = fit_limited(c, Target::Lines, tol, MAX_CHORDS_FOR_CROSSINGS)
+        .ok()?
+        .contour;
     let pts: Vec<(Point, Point)> = flat
         .segments
         .iter()
@@ -67,9 +70,6 @@ fn self_intersects(c: &Contour) -> Option<bool> {
             _ => None,
         })
         .collect();
-    if pts.len() > MAX_CHORDS_FOR_CROSSINGS {
-        return None;
-    }
     let n = pts.len();
     for i in 0..n {
         for j in i + 2..n {

@@ -176,6 +176,11 @@ fn cases() -> Vec<Case> {
             expect: Expect::Skipped(2, &["f.ttf", "'A' (glyph 36) line 1 col 1"]) },
         Case { name: "characters missing from the font", files: vec![], args: &["--font", "{fonts}/RatlineTestVar.ttf", "--text", "AZ€"],
             expect: Expect::Skipped(2, &["RatlineTestVar.ttf", "'Z' (glyph 0) line 1 col 2", "no glyph for U+005A", "no glyph for U+20AC"]) },
+        // A closed glyph contour on one line and one of coincident points enclose no area: a
+        // filled glyph draws nothing there (OpenType 1.9, "glyf": contours are filled by the
+        // non-zero winding rule), so they are skipped as drawing nothing, and the job succeeds.
+        Case { name: "zero-area glyphs", files: vec![], args: &["--font", "{fonts}/RatlineTestVar.ttf", "--text", "A-."],
+            expect: Expect::Skipped(0, &["'-' (glyph 6) line 1 col 2", "encloses no area", "'.' (glyph 7) line 1 col 3", "single points (zero length)"]) },
         Case { name: "cap height 1e308", files: vec![], args: &["--font", "{fonts}/RatlineTestVar.ttf", "--text", "A", "--cap-height", "1e308mm"],
             expect: Expect::Refused(&["RatlineTestVar.ttf: size: 1e308 mm", "at most 100000 mm"]) },
         Case { name: "cap height zero", files: vec![], args: &["--font", "{fonts}/RatlineTestVar.ttf", "--text", "A", "--cap-height", "0"],
@@ -238,7 +243,14 @@ fn cases() -> Vec<Case> {
         Case { name: "max segments not a number", files: vec![("in.svg", svg(SQUARE))], args: &["{dir}/in.svg", "--max-segments", "abc"],
             expect: Expect::Refused(&["--max-segments"]) },
         Case { name: "output segment limit", files: vec![("in.svg", svg(r#"<circle cx="50" cy="50" r="40"/>"#))], args: &["{dir}/in.svg", "--to", "lines", "--tolerance", "0.000001mm", "--max-segments", "1000"],
-            expect: Expect::Refused(&["the output passed the limit of 1000 segments (--max-segments)", "after fitting 1 of 1 contours"]) },
+            expect: Expect::Refused(&["the output passed the limit of 1000 segments (--max-segments)", "after fitting 0 of 1 contours"]) },
+        // One contour alone that would need about 1.4e7 chords (a circle of radius 4e7 at
+        // 1e-6 mm: sagitta r(1 − cos(θ/2)) ≤ t gives θ ≈ √(8t/r)): stopped inside the fit,
+        // before the chords are built, under the default limit.
+        Case { name: "one huge circle at a micrometre", files: vec![("in.svg", svg(r#"<circle cx="0" cy="0" r="4e7"/>"#))], args: &["{dir}/in.svg", "--to", "lines", "--tolerance", "0.000001mm"],
+            expect: Expect::Refused(&["the output passed the limit of 5000000 segments (--max-segments)", "after fitting 0 of 1 contours"]) },
+        Case { name: "one huge curve at a micrometre", files: vec![("in.svg", svg(r#"<path d="M0 0 C 1e6 1e6 2e6 -1e6 3e6 0"/>"#))], args: &["{dir}/in.svg", "--to", "arcs", "--tolerance", "0.000001mm", "--max-segments", "2000"],
+            expect: Expect::Refused(&["the output passed the limit of 2000 segments (--max-segments)", "after fitting 0 of 1 contours"]) },
         Case { name: "missing input", files: vec![], args: &["{dir}/nope.svg"],
             expect: Expect::Refused(&["nope.svg: cannot read"]) },
         Case { name: "input is a folder", files: vec![], args: &["{dir}"],

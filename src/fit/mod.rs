@@ -15,6 +15,10 @@
 //! Every approximated piece is measured with [`crate::measure::hausdorff`] against the exact
 //! source interval it replaces; a piece whose certified bound exceeds the tolerance is made
 //! shorter. The reported deviation is therefore a certified bound, never an estimate.
+//!
+//! [`fit_limited`] stops as soon as the output passes a segment limit (a tolerance far below a
+//! machine's resolution on a large drawing multiplies the output without bound), before the
+//! pieces past the limit are built.
 
 mod arcs;
 mod circle;
@@ -83,16 +87,73 @@ const CERT_SLACK: f64 = 1e-3;
 /// Greedy searches aim a little below the tolerance so the certified bound fits under it.
 const SEARCH_GOAL: f64 = 0.995;
 
-/// Fit a contour to the target within the tolerance.
-pub fn fit(contour: &Contour, target: Target, tol: Tolerance) -> Fitted {
-    let tol = tol.mm();
-    let mut pieces = Vec::new();
-    for run in runs(&contour.segments) {
-        match run {
-            Run::Circle { arc, parts } => circular_run(&arc, &parts, target, tol, &mut pieces),
-            Run::Single(i) => segment_run(&contour.segments[i], i, target, tol, &mut pieces),
+/// The output of a fit passed its segment limit; fitting stopped there.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct OverLimit {
+    pub limit: usize,
+}
+
+impl std::fmt::Display for OverLimit {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        write!(f, "the fit passed its limit of {} segments", self.limit)
+    }
+}
+
+impl std::error::Error for OverLimit {}
+
+/// The pieces of a fit so far, and the limit on their segments.
+struct Pieces {
+    pieces: Vec<Piece>,
+    segments: usize,
+    limit: usize,
+}
+
+impl Pieces {
+    /// Fails if `n` more segments would pass the limit.
+    fn room(&self, n: usize) -> Result<(), OverLimit> {
+        if self.segments.saturating_add(n) > self.limit {
+            Err(OverLimit { limit: self.limit })
+        } else {
+            Ok(())
         }
     }
+
+    fn push(&mut self, p: Piece) -> Result<(), OverLimit> {
+        self.room(p.out.len())?;
+        self.segments += p.out.len();
+        self.pieces.push(p);
+        Ok(())
+    }
+}
+
+/// Fit a contour to the target within the tolerance.
+pub fn fit(contour: &Contour, target: Target, tol: Tolerance) -> Fitted {
+    match fit_limited(contour, target, tol, usize::MAX) {
+        Ok(f) => f,
+        Err(e) => unreachable!("{e}: no output can hold usize::MAX segments"),
+    }
+}
+
+/// Fit a contour to the target within the tolerance, with at most `limit` output segments.
+pub fn fit_limited(
+    contour: &Contour,
+    target: Target,
+    tol: Tolerance,
+    limit: usize,
+) -> Result<Fitted, OverLimit> {
+    let tol = tol.mm();
+    let mut out = Pieces {
+        pieces: Vec::new(),
+        segments: 0,
+        limit,
+    };
+    for run in runs(&contour.segments) {
+        match run {
+            Run::Circle { arc, parts } => circular_run(&arc, &parts, target, tol, &mut out)?,
+            Run::Single(i) => segment_run(&contour.segments[i], i, target, tol, &mut out)?,
+        }
+    }
+    let mut pieces = out.pieces;
     if target == Target::Cubic {
         pieces = merge::merge_smooth(&contour.segments, pieces, SEARCH_GOAL * tol);
     }
@@ -102,11 +163,11 @@ pub fn fit(contour: &Contour, target: Target, tol: Tolerance) -> Fitted {
         .map(|p| p.deviation)
         .fold(Deviation::zero(start), Deviation::max);
     let segments = pieces.iter().flat_map(|p| p.out.iter().copied()).collect();
-    Fitted {
+    Ok(Fitted {
         contour: Contour::new(segments, contour.closed, contour.source.clone()),
         pieces,
         deviation,
-    }
+    })
 }
 
 /// A run of the source: a merged circular arc or one segment.
@@ -255,21 +316,29 @@ fn exact(out: Segment, index: usize) -> Piece {
     }
 }
 
-fn circular_run(arc: &CircularArc, parts: &[Part], target: Target, tol: f64, out: &mut Vec<Piece>) {
+fn circular_run(
+    arc: &CircularArc,
+    parts: &[Part],
+    target: Target,
+    tol: f64,
+    out: &mut Pieces,
+) -> Result<(), OverLimit> {
     if target == Target::Arcs {
         let whole = Segment::Arc(*arc);
         let from = run_position(parts, 0.0);
         let to = run_position(parts, 1.0);
-        out.push(Piece {
+        return out.push(Piece {
             out: vec![whole],
             from,
             to,
             deviation: Deviation::zero(whole.start()),
         });
-        return;
     }
     let max_piece = circle::max_piece_sweep(target, arc.radius, tol);
-    let fewest = (arc.sweep.abs() / max_piece - 1e-12).ceil().max(1.0) as usize;
+    let fewest = (arc.sweep.abs() / max_piece - 1e-12).ceil().max(1.0);
+    // Checked before any piece is built (the count can be astronomical for a huge radius).
+    out.room(fewest.min(usize::MAX as f64) as usize)?;
+    let fewest = fewest as usize;
     // The closed form gives the fewest pieces; certification has the last word. A few more
     // pieces are tried only if a certified bound comes out above the tolerance.
     for n in fewest..fewest + 4 {
@@ -288,16 +357,16 @@ fn circular_run(arc: &CircularArc, parts: &[Part], target: Target, tol: f64, out
             })
             .collect();
         if pieces.iter().all(|p| p.deviation.bound <= tol) {
-            out.extend(pieces);
-            return;
+            return pieces.into_iter().try_for_each(|p| out.push(p));
         }
     }
     // Still over: fall back to the general greedy method on the source segments themselves.
     for p in parts {
         if let Some(s) = circle_of_part(arc, parts, p) {
-            greedy(&s, p.index, target, tol, out);
+            greedy(&s, p.index, target, tol, out)?;
         }
     }
+    Ok(())
 }
 
 /// The exact sub-arc of a run that one part covers.
@@ -315,10 +384,16 @@ fn circle_of_part(arc: &CircularArc, parts: &[Part], part: &Part) -> Option<Segm
     Some(Segment::Arc(arc.subsegment(f0..f1)))
 }
 
-fn segment_run(s: &Segment, index: usize, target: Target, tol: f64, out: &mut Vec<Piece>) {
+fn segment_run(
+    s: &Segment,
+    index: usize,
+    target: Target,
+    tol: f64,
+    out: &mut Pieces,
+) -> Result<(), OverLimit> {
     if s.speed_bound() == 0.0 {
         // A segment of zero length adds nothing to the drawing: it is its own start point.
-        return;
+        return Ok(());
     }
     match (target, s) {
         (_, Segment::Line(_)) => out.push(exact(*s, index)),
@@ -341,7 +416,13 @@ fn approximate(target: Target, s: &Segment) -> Vec<Segment> {
 }
 
 /// Split one segment greedily: each piece as long as the approximation stays within tolerance.
-fn greedy(s: &Segment, index: usize, target: Target, tol: f64, out: &mut Vec<Piece>) {
+fn greedy(
+    s: &Segment,
+    index: usize,
+    target: Target,
+    tol: f64,
+    out: &mut Pieces,
+) -> Result<(), OverLimit> {
     let goal = SEARCH_GOAL * tol;
     let error = |t0: f64, t1: f64| {
         let sub = s.subsegment(t0, t1);
@@ -382,8 +463,9 @@ fn greedy(s: &Segment, index: usize, target: Target, tol: f64, out: &mut Vec<Pie
         };
         step = t1 - t0;
         t0 = t1;
-        out.push(piece);
+        out.push(piece)?;
     }
+    Ok(())
 }
 
 /// The largest t1 in (t0, 1] whose error is within the goal, assuming the error grows with the

@@ -3,7 +3,9 @@
 variation tests, with fontTools.fontBuilder.
 
 One axis, wght 100..400..900 (default 400). Glyphs: .notdef, space, A, H, V, x, drawn as
-straight-sided polygons (em 1000, cap height 700, x-height 500). Going to wght 900 the stems
+straight-sided polygons (em 1000, cap height 700, x-height 500), and two degenerate ones for the
+bad-input tests: hyphen, a closed contour whose points lie on one line (it encloses no area),
+and period, a contour whose points all coincide. Going to wght 900 the stems
 widen by 100 units and the advances grow by 100 (gvar deltas on the outline points and on the
 right phantom point; no HVAR, so readers take the advance from the phantom point).
 
@@ -42,6 +44,8 @@ GLYPHS = {
     "x": (520, [[(30, 0), (230, 250), (30, 500), (120, 500), (260, 320), (400, 500), (490, 500),
                  (290, 250), (490, 0), (400, 0), (260, 180), (120, 0)]],
           [0, 0, 0, 0, 50, 100, 100, 100, 100, 100, 50, 0]),
+    "hyphen": (400, [[(50, 300), (200, 300), (350, 300)]], [0, 50, 100]),
+    "period": (300, [[(150, 0), (150, 0), (150, 0)]], [0, 0, 0]),
 }
 
 
@@ -49,7 +53,8 @@ def main():
     fb = FontBuilder(1000, isTTF=True)
     order = list(GLYPHS)
     fb.setupGlyphOrder(order)
-    fb.setupCharacterMap({32: "space", 65: "A", 72: "H", 86: "V", 120: "x"})
+    fb.setupCharacterMap({32: "space", 45: "hyphen", 46: "period", 65: "A", 72: "H", 86: "V",
+                          120: "x"})
     fb.setupGlyf({n: polygons(*GLYPHS[n][1]) for n in order})
     glyf = fb.font["glyf"]
     fb.setupHorizontalMetrics({n: (GLYPHS[n][0], getattr(glyf[n], "xMin", 0)) for n in order})

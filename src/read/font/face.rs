@@ -176,7 +176,7 @@ pub(crate) fn cap_height(face: &Face<'_>) -> Option<CapHeight> {
             .reduce(f64::max)
             .filter(|top| *top > 0.0)
             .map(CapHeight::Measured),
-        GlyphShape::Empty | GlyphShape::Failed(_) => None,
+        GlyphShape::Empty | GlyphShape::Points | GlyphShape::Failed(_) => None,
     }
 }
 

@@ -101,17 +101,29 @@ pub(crate) fn set(
             match shape {
                 GlyphShape::Contours(contours) => {
                     let a = Affine::new([s, 0.0, 0.0, -s, p.x + shift, p.y]);
-                    out.contours
-                        .extend(contours.iter().enumerate().map(|(k, segs)| {
-                            Contour::new(segs.clone(), true, Source::new(label, element.clone(), k))
-                                .transformed(a)
-                        }));
+                    for (k, segs) in contours.iter().enumerate() {
+                        let source = Source::new(label, element.clone(), k);
+                        if pen::encloses_no_area(segs) {
+                            out.skipped.push(Skipped::hidden(
+                                source,
+                                "the contour encloses no area (its points lie on one line): \
+                                 filled, it draws nothing; not cut",
+                            ));
+                        } else {
+                            out.contours
+                                .push(Contour::new(segs.clone(), true, source).transformed(a));
+                        }
+                    }
                 }
                 GlyphShape::Empty if text.chars().all(invisible) => {}
                 GlyphShape::Empty => out.skipped.push(skip(format!(
                     "the glyph for {} has no outline; nothing drawn",
                     code_points(text)
                 ))),
+                GlyphShape::Points => out.skipped.push(Skipped::hidden(
+                    Source::new(label, element.clone(), 0),
+                    "the glyph's contours are single points (zero length): nothing drawn",
+                )),
                 GlyphShape::Failed(reason) => out.skipped.push(skip((*reason).to_string())),
             }
         }

@@ -203,7 +203,7 @@ pub fn glyph_outline(
                 })
                 .collect(),
         )),
-        GlyphShape::Empty => Ok(None),
+        GlyphShape::Empty | GlyphShape::Points => Ok(None),
         GlyphShape::Failed(reason) => Err(InputError::at(file_label, place, reason)),
     }
 }

@@ -8,7 +8,9 @@
 //! each contour itself: on `close()`, on the next `move_to` and at the end of the glyph, adding
 //! a straight closing line when the last point differs from the first. Segments whose control
 //! points all coincide (zero length) are dropped; a contour left with no segment (a lone point,
-//! as TrueType uses for hinting anchors) draws nothing and is dropped.
+//! as TrueType uses for hinting anchors) draws nothing and is dropped. A contour whose control
+//! points all lie on one line lies on that line itself (convex hull property) and encloses no
+//! area: [`encloses_no_area`] tells the layout to skip it with that reason.
 //!
 //! ttf-parser returns `None` for an empty glyph (a space) and also for a malformed one, after
 //! possibly having emitted part of its outline. The pen records whether anything was emitted,
@@ -26,6 +28,8 @@ pub(crate) enum GlyphShape {
     Contours(Vec<Vec<Segment>>),
     /// No outline data at all (a space, or an empty glyph).
     Empty,
+    /// Contours that are single points (all their points coincide): zero length, nothing drawn.
+    Points,
     /// The outline could not be read; the reason.
     Failed(&'static str),
 }
@@ -37,9 +41,7 @@ pub(crate) fn outline(face: &Face<'_>, glyph: GlyphId) -> GlyphShape {
     let contours = pen.finish();
     match (bbox, contours.is_empty()) {
         (Some(_), false) => GlyphShape::Contours(contours),
-        (Some(_), true) => {
-            GlyphShape::Failed("the glyph has a bounding box but no drawable contour")
-        }
+        (Some(_), true) => GlyphShape::Points,
         (None, _) if pen.emitted => GlyphShape::Failed(
             "the glyph's outline data is malformed (reading stopped part way through)",
         ),
@@ -87,6 +89,29 @@ impl Pen {
         self.close_current();
         std::mem::take(&mut self.contours)
     }
+}
+
+/// Whether every control point of a contour lies on one line, so that the contour (inside the
+/// hull of its control points) encloses no area and a filled glyph draws nothing there. Font
+/// coordinates are small integers or f32 values, so the cross products are exact in f64.
+pub(crate) fn encloses_no_area(contour: &[Segment]) -> bool {
+    let points: Vec<Point> = contour
+        .iter()
+        .flat_map(|s| match s {
+            Segment::Line(l) => vec![l.p0, l.p1],
+            Segment::Quad(q) => vec![q.p0, q.p1, q.p2],
+            Segment::Cubic(c) => vec![c.p0, c.p1, c.p2, c.p3],
+            Segment::Conic(k) => k.points().to_vec(),
+            Segment::Arc(_) => vec![],
+        })
+        .collect();
+    let Some(&a) = points.first() else {
+        return true;
+    };
+    let Some(&b) = points.iter().find(|p| **p != a) else {
+        return true;
+    };
+    points.iter().all(|&p| (b - a).cross(p - a) == 0.0)
 }
 
 fn pt(x: f32, y: f32) -> Point {
@@ -182,6 +207,30 @@ mod tests {
         assert_eq!(c.len(), 2);
         assert_eq!(kinds(&c[0]), ["L", "L", "L"]);
         assert_eq!(kinds(&c[1]), ["Q"]);
+    }
+
+    #[test]
+    fn contours_on_one_line_enclose_no_area() {
+        let line = |a: (f64, f64), b: (f64, f64)| Segment::Line(Line::new(a, b));
+        let flat = [line((0.0, 0.0), (10.0, 5.0)), line((10.0, 5.0), (0.0, 0.0))];
+        assert!(encloses_no_area(&flat));
+        let bent = [
+            Segment::Quad(QuadBez::new((0.0, 0.0), (5.0, 2.5), (10.0, 5.0))),
+            line((10.0, 5.0), (0.0, 0.0)),
+        ];
+        assert!(encloses_no_area(&bent));
+        let triangle = [
+            line((0.0, 0.0), (10.0, 0.0)),
+            line((10.0, 0.0), (0.0, 1.0)),
+            line((0.0, 1.0), (0.0, 0.0)),
+        ];
+        assert!(!encloses_no_area(&triangle));
+        // A control point off the line makes a curve that bulges: not flat.
+        let bulge = [
+            Segment::Quad(QuadBez::new((0.0, 0.0), (5.0, 1.0), (10.0, 0.0))),
+            line((10.0, 0.0), (0.0, 0.0)),
+        ];
+        assert!(!encloses_no_area(&bulge));
     }
 
     #[test]
