@@ -21,4 +21,7 @@ cargo test --release --all-targets 2>&1 | tee "$log" || status=$?
 # One closing line over every test binary, so the total is visible at the end.
 awk '/^test result:/ { for (i = 1; i <= NF; i++) { if ($(i+1) ~ /^passed/) p += $i; if ($(i+1) ~ /^failed/) f += $i } }
      END { printf "tests: %d passed, %d failed\n", p, f }' "$log"
+if [ "$status" -ne 0 ] && ! grep -q '^test result: FAILED' "$log"; then
+    echo "tests: a test binary or the build did not finish (see above)"
+fi
 exit "$status"

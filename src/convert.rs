@@ -146,7 +146,7 @@ impl fmt::Display for JobError {
             } => write!(
                 f,
                 "the output passed the limit of {limit} segments (--max-segments): \
-                 {produced} segments after fitting {fitted} of {total} contours; stopped. \
+                 at least {produced} segments after fitting {fitted} of {total} contours; stopped. \
                  Use a coarser --tolerance, or raise --max-segments"
             ),
         }

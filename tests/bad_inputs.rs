@@ -244,11 +244,11 @@ fn cases() -> Vec<Case> {
             expect: Expect::Refused(&["--max-segments"]) },
         Case { name: "output segment limit", files: vec![("in.svg", svg(r#"<circle cx="50" cy="50" r="40"/>"#))], args: &["{dir}/in.svg", "--to", "lines", "--tolerance", "0.000001mm", "--max-segments", "1000"],
             expect: Expect::Refused(&["the output passed the limit of 1000 segments (--max-segments)", "after fitting 0 of 1 contours"]) },
-        // One contour alone that would need about 1.4e7 chords (a circle of radius 4e7 at
-        // 1e-6 mm: sagitta r(1 − cos(θ/2)) ≤ t gives θ ≈ √(8t/r)): stopped inside the fit,
-        // before the chords are built, under the default limit.
-        Case { name: "one huge circle at a micrometre", files: vec![("in.svg", svg(r#"<circle cx="0" cy="0" r="4e7"/>"#))], args: &["{dir}/in.svg", "--to", "lines", "--tolerance", "0.000001mm"],
-            expect: Expect::Refused(&["the output passed the limit of 5000000 segments (--max-segments)", "after fitting 0 of 1 contours"]) },
+        // One contour alone that would need about 1.5e6 lines (a circle of radius 900 m at
+        // 1e-6 mm, error split both sides: n = ⌈π / arccos((r − t)/(r + t))⌉ ≈ π/√(4t/r)):
+        // stopped inside the fit, before the lines are built.
+        Case { name: "one huge circle at a micrometre", files: vec![("in.svg", svg(r#"<circle cx="0" cy="0" r="9e5"/>"#))], args: &["{dir}/in.svg", "--to", "lines", "--tolerance", "0.000001mm", "--max-segments", "100000"],
+            expect: Expect::Refused(&["the output passed the limit of 100000 segments (--max-segments)", "after fitting 0 of 1 contours"]) },
         Case { name: "one huge curve at a micrometre", files: vec![("in.svg", svg(r#"<path d="M0 0 C 1e6 1e6 2e6 -1e6 3e6 0"/>"#))], args: &["{dir}/in.svg", "--to", "arcs", "--tolerance", "0.000001mm", "--max-segments", "2000"],
             expect: Expect::Refused(&["the output passed the limit of 2000 segments (--max-segments)", "after fitting 0 of 1 contours"]) },
         Case { name: "missing input", files: vec![], args: &["{dir}/nope.svg"],

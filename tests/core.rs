@@ -4,7 +4,7 @@
 
 mod common;
 
-use std::f64::consts::{PI, TAU};
+use std::f64::consts::{FRAC_PI_2, PI, TAU};
 
 use common::{dense_hausdorff, Rng};
 use kurbo::{CubicBez, Line, ParamCurve, Point, QuadBez, Vec2};
@@ -226,8 +226,10 @@ fn line_counts_never_exceed_wangs_formula() {
 
 #[test]
 fn parabola_and_quarter_circle_chord_counts() {
-    // Shared REFERENCES §4 [derived]: y = x² from (−1,1) via (0,−1) to (1,1): fewest chords 9 at
-    // 0.01 (Wang 10) and 27 at 0.001 (Wang 32); the exact quarter circle r = 10: 18 chords at 0.01.
+    // Shared REFERENCES §4 [derived]: y = x² from (−1,1) via (0,−1) to (1,1): fewest chords
+    // with their vertices on the curve 9 at 0.01 (Wang 10) and 27 at 0.001 (Wang 32); the exact
+    // quarter circle r = 10: 18 chords at 0.01. ratline's lines cross the curve (vertices off
+    // it except at the ends and the extremum), so they may only be fewer.
     let q = QuadBez::new((-1.0, 1.0), (0.0, -1.0), (1.0, 1.0));
     let n = |t| {
         fit(
@@ -239,17 +241,23 @@ fn parabola_and_quarter_circle_chord_counts() {
         .segments
         .len()
     };
-    assert_eq!(n(0.01), 9);
+    let (coarse, fine) = (n(0.01), n(0.001));
+    assert!(coarse <= 9, "{coarse}");
     assert_eq!(wang(&[q.p0, q.p1, q.p2], 0.01), 10);
-    assert_eq!(n(0.001), 27);
+    assert!(fine <= 27, "{fine}");
     assert_eq!(wang(&[q.p0, q.p1, q.p2], 0.001), 32);
+    // With the error split both sides a line may bulge twice as far, so it can be √2 times as
+    // long (the bulge grows with the square of the length): about 27/√2 ≈ 19 lines, plus the
+    // shorter ones that end on the three vertices kept on the curve.
+    assert!(fine <= 23, "{fine}");
     let quarter = ellipse_conics(Point::ORIGIN, 10.0, 10.0, 0.0)[0];
     let f = fit(
         &contour(vec![Segment::Conic(quarter)], "quarter"),
         Target::Lines,
         tol(0.01),
     );
-    assert_eq!(f.contour.segments.len(), 18);
+    let quarter_lines = f.contour.segments.len();
+    assert!((13..=18).contains(&quarter_lines), "{quarter_lines}");
 }
 
 /// The theoretical fewest pieces for an arc of sweep θ and radius r (shared REFERENCES §3).
@@ -310,12 +318,24 @@ fn circular_arcs_stay_within_one_of_the_minimum() {
                     Target::Quadratic => (sweep / (PI / 2.0)).ceil() as usize,
                     _ => (sweep / PI).ceil() as usize,
                 };
+                // Lines keep a vertex on the curve at every x and y extremum, one more chord
+                // at most for each inside the arc.
+                let (lo, hi) = (
+                    arc.start_angle.min(arc.start_angle + arc.sweep),
+                    arc.start_angle.max(arc.start_angle + arc.sweep),
+                );
+                let extrema = ((hi / FRAC_PI_2).ceil() - (lo / FRAC_PI_2).floor() - 1.0) as usize;
+                let kept = if target == Target::Lines { extrema } else { 0 };
                 let n = f.contour.segments.len();
                 assert!(
-                    n <= min.max(cap) + 1,
+                    n <= min.max(cap) + 1 + kept,
                     "r {r} sweep {sweep} {target:?} {t}: {n} > {min}+1"
                 );
-                assert!(f.deviation.bound <= t);
+                assert!(
+                    f.deviation.bound <= t,
+                    "r {r} sweep {sweep} {target:?} {t}: {:?}",
+                    f.deviation
+                );
             }
             let a = fit(&c, Target::Arcs, tol(t));
             assert_eq!(a.contour.segments.len(), 1);

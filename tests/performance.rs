@@ -193,11 +193,12 @@ fn assert_at_minimum(counts: &[(f64, f64, usize, usize)]) {
 
 #[test]
 fn minima_match_the_references_table() {
-    // Shared REFERENCES §3, the table for a full circle of r = 10 mm [derived there]: chords 71
-    // and 223, quadratics 11 and 19, cubics 4 and 5 at 0.01 and 0.001 mm.
+    // Shared REFERENCES §3, the table for a full circle of r = 10 mm [derived there]: lines with
+    // the error split both sides 50 and 158, quadratics 11 and 19, cubics 4 and 5 at 0.01 and
+    // 0.001 mm.
     let m = |k, t| jobs::circle_minimum(k, 10.0, t);
-    assert_eq!(m(CircleTarget::Lines, 0.01), 71);
-    assert_eq!(m(CircleTarget::Lines, 0.001), 223);
+    assert_eq!(m(CircleTarget::Lines, 0.01), 50);
+    assert_eq!(m(CircleTarget::Lines, 0.001), 158);
     assert_eq!(m(CircleTarget::Quadratic, 0.01), 11);
     assert_eq!(m(CircleTarget::Quadratic, 0.001), 19);
     assert_eq!(m(CircleTarget::Cubic, 0.01), 4);

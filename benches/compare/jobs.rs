@@ -12,8 +12,9 @@
 //!   an arc is first made cubics, then flattened or made quadratics) the tolerance is split:
 //!   a tenth for the first step, nine tenths for the second.
 //! - Theoretical minimum counts for a full circle of radius r at tolerance t (shared
-//!   REFERENCES §3): chords with their ends on the circle, n = ⌈π / arccos(1 − t/r)⌉ (standard
-//!   geometry); quadratics with the control point at the tangents' intersection, error
+//!   REFERENCES §3): lines with their vertices at r + t and the error split evenly both sides
+//!   (the method ratline uses), n = ⌈π / arccos((r − t)/(r + t))⌉ (standard geometry; vertices
+//!   on the circle would need ⌈π / arccos(1 − t/r)⌉); quadratics with the control point at the tangents' intersection, error
 //!   r(1 − c)²/(2c), c = cos(θ/2) [derived]; cubics with tangent length (4/3)·tan(θ/4)·r, exact
 //!   error r(√(1 + (4/27)·sin⁶(θ/4)/cos²(θ/4)) − 1) [derived; first-order form in Goldapp, CAGD 8
 //!   (1991) 227-238]. Computed here from the formulas, independently of `ratline::fit`.
@@ -214,7 +215,7 @@ pub fn cubic_circle_error(theta: f64) -> f64 {
 pub fn circle_minimum(target: CircleTarget, r: f64, t: f64) -> usize {
     let k = t / r;
     let max_sweep = match target {
-        CircleTarget::Lines => 2.0 * (1.0 - k).max(-1.0).acos(),
+        CircleTarget::Lines => 2.0 * ((1.0 - k) / (1.0 + k)).acos(),
         CircleTarget::Quadratic => {
             // r(1 − c)²/(2c) ≤ t with x = 1 − c: x² + 2kx − 2k ≤ 0.
             let x = -k + (k * k + 2.0 * k).sqrt();

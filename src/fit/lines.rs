@@ -1,88 +1,92 @@
-//! Lines: a piece of curve becomes its chord, with both vertices on the curve.
+//! Lines: the exact deviation of one straight line from the run of curve it replaces.
 //!
-//! Exact deviation of a chord. Let u be the unit chord direction and write the piece in chord
-//! coordinates x(t) = (C(t) − P0)·u, y(t) = (C(t) − P0) × u. When x(t) is non-decreasing (the
-//! piece is a graph over its chord) every curve point projects inside the chord at distance
-//! |y(t)|, and every chord point has a curve point straight above it, so the symmetric Hausdorff
-//! distance is exactly max|y(t)|. x(t) is non-decreasing when the hodograph's control points all
-//! point forward along u (convex hull property; for a conic its derivative numerator's Bernstein
-//! coefficients, `conic.rs`). Then:
-//! - quadratic: y(t) = 2t(1−t)·y₁, maximum |y₁|/2 at t = ½;
-//! - cubic: y(t) = 3t(1−t)((1−t)y₁ + t·y₂), maximum at a root of the quadratic y'(t);
-//! - conic in standard form: y(t) = 2w·t(1−t)·y₁ / W(t), increasing in t(1−t), maximum
-//!   |y₁|·w/(1+w) at the shoulder point t = ½ (whose tangent is parallel to the chord, Farin,
-//!   *Curves and Surfaces for CAGD*, ch. 13).
+//! Write the curve in the line's frame: x(t) = (C(t) − V0)·u along the line from V0 to V1 (length
+//! L, unit direction u), y(t) = (C(t) − V0)·n across it (n = u turned 90°). When x(t) is
+//! non-decreasing (the run is a graph over the line; for a Bézier or a conic with positive weights
+//! it is when the control points' x never decrease, by the convex hull property of the hodograph,
+//! Farin, *Curves and Surfaces for CAGD*, 5th ed., §5.3) and runs from x₀ to x₁:
+//! - a curve point with x in [0, L] is |y| from the line, one with x < 0 at most |x₀| + |y| from
+//!   V0 (and likewise past L), so the curve is within max|y| + max(0, −x₀) + max(0, x₁ − L);
+//! - a line point with x in [x₀, x₁] has a curve point straight across, |y| away; one in
+//!   [0, x₀) is within max(|V0 − C₀|, |y(C₀)|) of the curve's start C₀ (the distance to a point is
+//!   convex along a segment), and likewise at the end.
 //!
-//! Pieces that are not graphs over their chord are measured by `measure` instead.
+//! So d_H ≤ max(max|y|, |V0 − C₀|, |V1 − C₁|) + the overhangs, and max|y| ≤ d_H is attained.
+//!
+//! y is an affine function of C(t), so its extremes lie at the ends or where y′ = 0: the y
+//! extrema of the run mapped into the line's frame (a rigid motion, exact for every segment
+//! kind). With the line's ends on the curve (a chord) the bound is exactly max|y|, the chord's
+//! sagitta.
 
-use kurbo::common::solve_quadratic;
-use kurbo::{Line, Point, Vec2};
+use kurbo::{Affine, Line, Point, Vec2};
 
 use crate::geom::Segment;
 use crate::measure::Deviation;
 
-/// The chord of a piece.
-pub fn chord(s: &Segment) -> Vec<Segment> {
-    vec![Segment::Line(Line::new(s.start(), s.end()))]
-}
-
 /// Relative allowance for floating-point evaluation of the closed forms.
 const ROUNDING: f64 = 1e-12;
 
-/// The exact Hausdorff distance between a piece and its chord, when the piece is a graph over
-/// the chord; `None` otherwise (or for a piece with coincident ends).
-pub fn chord_deviation(s: &Segment) -> Option<Deviation> {
-    let (p0, p1) = (s.start(), s.end());
-    let d = p1 - p0;
+/// The control points whose x must not decrease for x(t) to be non-decreasing.
+fn controls(s: &Segment) -> Vec<Point> {
+    match s {
+        Segment::Line(l) => vec![l.p0, l.p1],
+        Segment::Quad(q) => vec![q.p0, q.p1, q.p2],
+        Segment::Cubic(c) => vec![c.p0, c.p1, c.p2, c.p3],
+        Segment::Conic(k) => k.points().to_vec(),
+        // An arc is mapped to conics before this is asked.
+        Segment::Arc(_) => vec![],
+    }
+}
+
+/// A certified bound on the Hausdorff distance between a connected run of source pieces and
+/// one line, when the run is a graph over the line; `None` otherwise (or for a line of zero
+/// length).
+pub fn line_deviation(sources: &[Segment], line: Line) -> Option<Deviation> {
+    let (v0, v1) = (line.p0, line.p1);
+    let d = v1 - v0;
     let len = d.hypot();
+    let (first, last) = (sources.first()?, sources.last()?);
     if len == 0.0 {
         return None;
     }
     let u = d / len;
-    let forward = |v: Vec2| v.dot(u) >= 0.0;
-    let y = |p: Point| (p - p0).cross(u);
-    let (h, t) = match s {
-        Segment::Line(_) => (0.0, 0.5),
-        Segment::Quad(q) => {
-            if !(forward(q.p1 - q.p0) && forward(q.p2 - q.p1)) {
+    let n = Vec2::new(-u.y, u.x);
+    let frame = Affine::new([
+        u.x,
+        n.x,
+        u.y,
+        n.y,
+        -v0.to_vec2().dot(u),
+        -v0.to_vec2().dot(n),
+    ]);
+    let mut local = Vec::with_capacity(sources.len() + 2);
+    for s in sources {
+        s.transform(frame, &mut local);
+    }
+    let mut x_prev = f64::NEG_INFINITY;
+    let (mut h, mut at) = (0.0, first.start());
+    for s in &local {
+        for p in controls(s) {
+            if p.x < x_prev {
                 return None;
             }
-            (0.5 * y(q.p1).abs(), 0.5)
+            x_prev = p.x;
         }
-        Segment::Cubic(c) => {
-            if !(forward(c.p1 - c.p0) && forward(c.p2 - c.p1) && forward(c.p3 - c.p2)) {
-                return None;
+        for t in [0.0, 1.0].into_iter().chain(s.extrema()) {
+            let y = s.eval(t).y.abs();
+            if y > h {
+                h = y;
+                at = s.eval(t);
             }
-            let (y1, y2) = (y(c.p1), y(c.p2));
-            // y(t) = 3[(1−t)²t·y1 + (1−t)t²·y2]; y'(t)/3 = y1(1 − 4t + 3t²) + y2(2t − 3t²).
-            let f = |t: f64| 3.0 * t * (1.0 - t) * ((1.0 - t) * y1 + t * y2);
-            let roots = solve_quadratic(y1, 2.0 * y2 - 4.0 * y1, 3.0 * y1 - 3.0 * y2);
-            roots
-                .iter()
-                .copied()
-                .filter(|t| (0.0..=1.0).contains(t))
-                .map(|t| (f(t).abs(), t))
-                .fold((0.0, 0.5), |a, b| if b.0 > a.0 { b } else { a })
         }
-        Segment::Conic(k) => {
-            let [q0, q1, q2] = k.points();
-            if !(forward(q1 - q0) && forward(q2 - q1)) {
-                return None;
-            }
-            let w = k.weight();
-            (y(q1).abs() * w / (1.0 + w), 0.5)
-        }
-        Segment::Arc(a) => {
-            if a.sweep.abs() > std::f64::consts::PI {
-                return None;
-            }
-            (a.radius * (1.0 - (0.5 * a.sweep).cos()), 0.5)
-        }
-    };
-    let at = s.eval(t);
-    let scale = p0.to_vec2().hypot().max(p1.to_vec2().hypot()).max(len);
+    }
+    let (x0, x1) = (local[0].start().x, local[local.len() - 1].end().x);
+    let overhang = (-x0).max(0.0) + (x1 - len).max(0.0);
+    let ends = (v0 - first.start()).hypot().max((v1 - last.end()).hypot());
+    let at = frame.inverse() * at;
+    let scale = v0.to_vec2().hypot().max(v1.to_vec2().hypot()).max(len);
     Some(Deviation {
-        bound: h + ROUNDING * scale,
+        bound: h.max(ends) + overhang + ROUNDING * scale,
         sampled: h,
         at: [at.x, at.y],
     })
@@ -129,9 +133,10 @@ mod tests {
                 .unwrap(),
             ),
         ];
+        let chord = |s: &Segment| Line::new(s.start(), s.end());
         for s in cases {
-            let exact = chord_deviation(&s).expect("a graph over its chord");
-            let m = hausdorff(&[s], &chord(&s), 1e-9);
+            let exact = line_deviation(&[s], chord(&s)).expect("a graph over its chord");
+            let m = hausdorff(&[s], &[Segment::Line(chord(&s))], 1e-9);
             assert!(
                 (exact.sampled - m.sampled).abs() < 1e-8,
                 "{s:?}: {exact:?} vs {m:?}"
@@ -140,9 +145,32 @@ mod tests {
         }
         // Shared REFERENCES §5: the quadratic (0,0),(5,10),(10,0) is 5 from its chord.
         let q = Segment::Quad(QuadBez::new((0.0, 0.0), (5.0, 10.0), (10.0, 0.0)));
-        assert!((chord_deviation(&q).unwrap().sampled - 5.0).abs() < 1e-12);
+        assert!((line_deviation(&[q], chord(&q)).unwrap().sampled - 5.0).abs() < 1e-12);
         // A piece that doubles back over its chord is not a graph: no closed form.
         let back = Segment::Quad(QuadBez::new((0.0, 0.0), (-5.0, 3.0), (10.0, 0.0)));
-        assert!(chord_deviation(&back).is_none());
+        assert!(line_deviation(&[back], chord(&back)).is_none());
+    }
+
+    #[test]
+    fn lines_off_the_curve_are_bounded_from_above() {
+        // The same quadratic (peak 5 above its chord) against lines raised by 2.5 and tilted:
+        // the bound is never below the certified measurement, and for the raised line it is
+        // the exact 2.5 on both sides.
+        let q = Segment::Quad(QuadBez::new((0.0, 0.0), (5.0, 10.0), (10.0, 0.0)));
+        let raised = Line::new((0.0, 2.5), (10.0, 2.5));
+        let b = line_deviation(&[q], raised).unwrap();
+        assert!((b.bound - 2.5).abs() < 1e-9, "{b:?}");
+        // Two pieces of a run, and lines whose ends lie off the curve on either side.
+        let (l, r) = (q.subsegment(0.0, 0.4), q.subsegment(0.4, 1.0));
+        for line in [
+            Line::new((0.3, 1.0), (9.5, 2.0)),
+            Line::new((-0.4, 0.5), (10.2, 3.0)),
+            Line::new((0.0, 0.0), (10.0, 4.0)),
+        ] {
+            let b = line_deviation(&[l, r], line).unwrap();
+            let m = hausdorff(&[l, r], &[Segment::Line(line)], 1e-9);
+            assert!(b.bound >= m.sampled - 1e-9, "{line:?}: {b:?} vs {m:?}");
+            assert!(b.sampled <= m.bound + 1e-9, "{line:?}: {b:?} vs {m:?}");
+        }
     }
 }

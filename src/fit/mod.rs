@@ -1,6 +1,11 @@
 //! Fitting: one entry point, [`fit`], that replaces a contour by the primitives a machine accepts
 //! (lines, quadratics, cubics or circular arcs) within a tolerance, and certifies every piece.
 //!
+//! Lines (`spread.rs`) spread the error to both sides of each curve: vertices sit just outside
+//! the curve, except at corners, straight lines, inflections and x/y extrema, where they stay on
+//! it; a contour that is one whole circle becomes the regular polygon with its error split
+//! evenly inside and outside. The other targets work as follows.
+//!
 //! The contour is first read as a sequence of *runs*: consecutive circular conics around the
 //! same centre merge into one circular arc (up to a full turn), every other segment is a run of
 //! its own. Circular runs are split into the fewest equal pieces that the target's closed-form
@@ -26,6 +31,7 @@ mod cubic;
 mod lines;
 mod merge;
 mod quadratic;
+mod spread;
 
 use std::f64::consts::TAU;
 
@@ -147,10 +153,23 @@ pub fn fit_limited(
         segments: 0,
         limit,
     };
-    for run in runs(&contour.segments) {
-        match run {
-            Run::Circle { arc, parts } => circular_run(&arc, &parts, target, tol, &mut out)?,
-            Run::Single(i) => segment_run(&contour.segments[i], i, target, tol, &mut out)?,
+    let runs = runs(&contour.segments);
+    match (target, runs.as_slice()) {
+        (Target::Lines, [Run::Circle { arc, parts }])
+            if contour.closed && arc.sweep.abs() >= TAU - 1e-9 =>
+        {
+            spread::circle(arc, tol, |f| run_position(parts, f), &mut out)?
+        }
+        (Target::Lines, _) => spread::lines(&contour.segments, tol, &mut out)?,
+        _ => {
+            for run in runs {
+                match run {
+                    Run::Circle { arc, parts } => {
+                        circular_run(&arc, &parts, target, tol, &mut out)?
+                    }
+                    Run::Single(i) => segment_run(&contour.segments[i], i, target, tol, &mut out)?,
+                }
+            }
         }
     }
     let mut pieces = out.pieces;
@@ -276,13 +295,11 @@ fn run_position(parts: &[Part], frac: f64) -> At {
     At { segment: 0, t: 0.0 }
 }
 
-/// The exact deviation of a piece where a closed form exists (a chord over a piece that is a
+/// The exact deviation of a piece where a closed form exists (one line over a piece that is a
 /// graph over it, `lines.rs`).
 fn closed_form(source: &Segment, out: &[Segment]) -> Option<Deviation> {
     match out {
-        [Segment::Line(l)] if l.p0 == source.start() && l.p1 == source.end() => {
-            lines::chord_deviation(source)
-        }
+        [Segment::Line(l)] => lines::line_deviation(std::slice::from_ref(source), *l),
         _ => None,
     }
 }
@@ -408,7 +425,7 @@ fn segment_run(
 /// The target's approximation of one source piece.
 fn approximate(target: Target, s: &Segment) -> Vec<Segment> {
     match target {
-        Target::Lines => lines::chord(s),
+        Target::Lines => vec![Segment::Line(kurbo::Line::new(s.start(), s.end()))],
         Target::Quadratic => quadratic::approximate(s),
         Target::Cubic => cubic::approximate(s),
         Target::Arcs => arcs::biarc(s),
@@ -426,19 +443,16 @@ fn greedy(
     let goal = SEARCH_GOAL * tol;
     let error = |t0: f64, t1: f64| {
         let sub = s.subsegment(t0, t1);
-        let closed = match target {
-            Target::Lines => lines::chord_deviation(&sub),
-            _ => None,
-        };
-        match closed {
+        let approx = approximate(target, &sub);
+        match closed_form(&sub, &approx) {
             Some(d) => d.bound,
-            None => measure::estimate(&[sub], &approximate(target, &sub), 16),
+            None => measure::estimate(&[sub], &approx, 16),
         }
     };
     let mut t0 = 0.0;
     let mut step: f64 = 1.0;
     while t0 < 1.0 {
-        let mut t1 = search_end(t0, step, goal, &error);
+        let mut t1 = search_end(t0, 1.0, step, goal, &error);
         let piece = loop {
             let sub = s.subsegment(t0, t1);
             let p = certify(
@@ -468,15 +482,15 @@ fn greedy(
     Ok(())
 }
 
-/// The largest t1 in (t0, 1] whose error is within the goal, assuming the error grows with the
+/// The largest t1 in (t0, end] whose error is within the goal, assuming the error grows with the
 /// piece roughly as a power of its length (error ∝ hᵖ, p = 2 for chords, higher for curves): a
 /// safeguarded secant on log(error) against log(h) inside a bracket [feasible, infeasible],
 /// starting from the previous piece's length and stopping within 0.5% below the goal.
-fn search_end(t0: f64, step: f64, goal: f64, error: &impl Fn(f64, f64) -> f64) -> f64 {
-    let whole = 1.0 - t0;
-    let e_whole = error(t0, 1.0);
+fn search_end(t0: f64, end: f64, step: f64, goal: f64, error: &impl Fn(f64, f64) -> f64) -> f64 {
+    let whole = end - t0;
+    let e_whole = error(t0, end);
     if e_whole <= goal {
-        return 1.0;
+        return end;
     }
     let target = 0.998 * goal;
     let (mut lo, mut e_lo) = (0.0, 0.0);
@@ -509,7 +523,7 @@ fn search_end(t0: f64, step: f64, goal: f64, error: &impl Fn(f64, f64) -> f64) -
     if lo > 0.0 {
         t0 + lo
     } else {
-        (t0 + h.max(1e-9)).min(1.0)
+        (t0 + h.max(1e-9)).min(end)
     }
 }
 

@@ -5,9 +5,12 @@
 //! hull property its norm never exceeds the largest of theirs (Farin, *Curves and Surfaces for
 //! CAGD*, 5th ed., 2002, §5.3). Conics bound their speed in `conic.rs`; an arc's speed is r·|θ|.
 
+use std::f64::consts::FRAC_PI_2;
+
+use arrayvec::ArrayVec;
 use kurbo::{
     Affine, CubicBez, Line, ParamCurve, ParamCurveArclen, ParamCurveDeriv, ParamCurveExtrema,
-    ParamCurveNearest, Point, QuadBez, Rect, Vec2,
+    ParamCurveNearest, Point, QuadBez, Rect, Vec2, MAX_EXTREMA,
 };
 use serde::Serialize;
 
@@ -240,6 +243,34 @@ impl Segment {
                 out.extend(s.to_conics().iter().map(|c| Segment::Conic(c.transform(a))))
             }
         }
+    }
+
+    /// The parameters in (0, 1) where x or y has an extremum, in increasing order (for an arc,
+    /// where its angle passes a multiple of 90°).
+    pub fn extrema(&self) -> ArrayVec<f64, MAX_EXTREMA> {
+        let mut out: ArrayVec<f64, MAX_EXTREMA> = match self {
+            Segment::Line(_) => ArrayVec::new(),
+            Segment::Quad(s) => s.extrema(),
+            Segment::Cubic(s) => s.extrema(),
+            Segment::Conic(s) => s.extrema(),
+            Segment::Arc(a) => {
+                let (lo, hi) = if a.sweep >= 0.0 {
+                    (a.start_angle, a.start_angle + a.sweep)
+                } else {
+                    (a.start_angle + a.sweep, a.start_angle)
+                };
+                let first = (lo / FRAC_PI_2).floor() as i64 + 1;
+                (first..)
+                    .map(|k| k as f64 * FRAC_PI_2)
+                    .take_while(|&q| q < hi)
+                    .map(|q| (q - a.start_angle) / a.sweep)
+                    .filter(|t| *t > 0.0 && *t < 1.0)
+                    .take(MAX_EXTREMA)
+                    .collect()
+            }
+        };
+        out.sort_by(f64::total_cmp);
+        out
     }
 
     /// Whether every coordinate is finite.

@@ -66,8 +66,10 @@ def main():
     fb.setupFvar([("wght", 100, 400, 900, "Weight")], [])
     variations = {}
     for name, (_, _, dx) in GLYPHS.items():
-        # Four phantom points follow the outline points: left, right, top, bottom.
-        deltas = [(d, 0) for d in dx] + [(0, 0), (100, 0), (0, 0), (0, 0)]
+        # One delta per point the pen kept (it drops a closing point equal to the first), then
+        # the four phantom points: left, right, top, bottom.
+        n = glyf[name].numberOfContours and len(glyf[name].coordinates)
+        deltas = [(d, 0) for d in (dx + [0] * n)[:n]] + [(0, 0), (100, 0), (0, 0), (0, 0)]
         variations[name] = [TupleVariation({"wght": (0.0, 1.0, 1.0)}, deltas)]
     fb.setupGvar(variations)
     fb.save("tests/fonts/RatlineTestVar.ttf")
