@@ -99,9 +99,6 @@ fn assert_within_tolerance(f: &Font, target: Target) {
 }
 
 #[test]
-#[ignore = "goal of the performance issue: lines at most 0.8 x kurbo's flatten count; \
-            measured 0.991 x on these glyphs (34,973 vs 35,294): chords keep both ends on the \
-            curve; spreading the error to both sides is not built yet"]
 fn lines_at_most_four_fifths_of_kurbo_flatten() {
     // Reference: kurbo 0.13 `flatten` (Levien's parabola-integral subdivision) of the same
     // glyph paths at the same tolerance.

@@ -18,6 +18,8 @@
 //! kind). With the line's ends on the curve (a chord) the bound is exactly max|y|, the chord's
 //! sagitta.
 
+use arrayvec::ArrayVec;
+use kurbo::common::solve_quadratic;
 use kurbo::{Affine, Line, Point, Vec2};
 
 use crate::geom::Segment;
@@ -27,15 +29,44 @@ use crate::measure::Deviation;
 const ROUNDING: f64 = 1e-12;
 
 /// The control points whose x must not decrease for x(t) to be non-decreasing.
-fn controls(s: &Segment) -> Vec<Point> {
+fn controls(s: &Segment) -> ArrayVec<Point, 4> {
+    let mut out = ArrayVec::new();
     match s {
-        Segment::Line(l) => vec![l.p0, l.p1],
-        Segment::Quad(q) => vec![q.p0, q.p1, q.p2],
-        Segment::Cubic(c) => vec![c.p0, c.p1, c.p2, c.p3],
-        Segment::Conic(k) => k.points().to_vec(),
+        Segment::Line(l) => out.extend([l.p0, l.p1]),
+        Segment::Quad(q) => out.extend([q.p0, q.p1, q.p2]),
+        Segment::Cubic(c) => out.extend([c.p0, c.p1, c.p2, c.p3]),
+        Segment::Conic(k) => out.extend(k.points()),
         // An arc is mapped to conics before this is asked.
-        Segment::Arc(_) => vec![],
+        Segment::Arc(_) => {}
     }
+    out
+}
+
+/// The parameters where y′ = 0 inside (0, 1), for a segment in the line's frame: the roots of
+/// the y hodograph for Béziers (power basis), the y extrema otherwise.
+fn y_turns(s: &Segment) -> ArrayVec<f64, 4> {
+    let inside = |t: &f64| *t > 0.0 && *t < 1.0;
+    let mut out = ArrayVec::new();
+    match s {
+        Segment::Line(_) => {}
+        Segment::Quad(q) => {
+            let den = q.p0.y - 2.0 * q.p1.y + q.p2.y;
+            if den != 0.0 {
+                out.extend(Some((q.p0.y - q.p1.y) / den).filter(inside));
+            }
+        }
+        Segment::Cubic(c) => {
+            // y′/3 = a(1−t)² + 2b·t(1−t) + c·t² with a, b, c the hodograph's y values.
+            let (a, b, cc) = (c.p1.y - c.p0.y, c.p2.y - c.p1.y, c.p3.y - c.p2.y);
+            out.extend(
+                solve_quadratic(a, 2.0 * (b - a), a - 2.0 * b + cc)
+                    .into_iter()
+                    .filter(inside),
+            );
+        }
+        _ => out.extend(s.extrema()),
+    }
+    out
 }
 
 /// A certified bound on the Hausdorff distance between a connected run of source pieces and
@@ -59,31 +90,36 @@ pub fn line_deviation(sources: &[Segment], line: Line) -> Option<Deviation> {
         -v0.to_vec2().dot(u),
         -v0.to_vec2().dot(n),
     ]);
-    let mut local = Vec::with_capacity(sources.len() + 2);
-    for s in sources {
-        s.transform(frame, &mut local);
-    }
     let mut x_prev = f64::NEG_INFINITY;
-    let (mut h, mut at) = (0.0, first.start());
-    for s in &local {
-        for p in controls(s) {
-            if p.x < x_prev {
-                return None;
+    let (mut h, mut at) = (0.0, Point::ORIGIN);
+    let mut local = Vec::new();
+    for s in sources {
+        local.clear();
+        s.transform(frame, &mut local);
+        for s in &local {
+            for p in controls(s) {
+                if p.x < x_prev {
+                    return None;
+                }
+                x_prev = p.x;
             }
-            x_prev = p.x;
-        }
-        for t in [0.0, 1.0].into_iter().chain(s.extrema()) {
-            let y = s.eval(t).y.abs();
-            if y > h {
-                h = y;
-                at = s.eval(t);
+            for t in [0.0, 1.0].into_iter().chain(y_turns(s)) {
+                let p = s.eval(t);
+                if p.y.abs() > h {
+                    (h, at) = (p.y.abs(), p);
+                }
             }
         }
     }
-    let (x0, x1) = (local[0].start().x, local[local.len() - 1].end().x);
+    let x0 = (first.start() - v0).dot(u);
+    let x1 = (last.end() - v0).dot(u);
     let overhang = (-x0).max(0.0) + (x1 - len).max(0.0);
     let ends = (v0 - first.start()).hypot().max((v1 - last.end()).hypot());
-    let at = frame.inverse() * at;
+    let at = if h > 0.0 {
+        frame.inverse() * at
+    } else {
+        first.start()
+    };
     let scale = v0.to_vec2().hypot().max(v1.to_vec2().hypot()).max(len);
     Some(Deviation {
         bound: h.max(ends) + overhang + ROUNDING * scale,
