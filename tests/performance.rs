@@ -113,6 +113,36 @@ fn lines_at_most_four_fifths_of_kurbo_flatten() {
 }
 
 #[test]
+fn lines_keep_the_extent_of_every_contour() {
+    // Lines cross the curve, but a vertex stays on it at every x and y extremum and no vertex
+    // passes the tangent there, so each contour's bounding box is the exact one (kurbo's
+    // `bounding_box` of the source segments, from their own extrema) to rounding; both fonts,
+    // quadratic and cubic sources.
+    for f in [dejavu(), cantarell()] {
+        for (c, out) in f.contours.iter().zip(fitted(f, Target::Lines)) {
+            let exact = c
+                .segments
+                .iter()
+                .map(|s| s.bounding_box())
+                .reduce(|a, b| a.union(b));
+            let lines = out
+                .contour
+                .segments
+                .iter()
+                .map(|s| s.bounding_box())
+                .reduce(|a, b| a.union(b));
+            let (e, l) = (exact.unwrap(), lines.unwrap());
+            let gap = [(e.x0 - l.x0), (l.x1 - e.x1), (e.y0 - l.y0), (l.y1 - e.y1)];
+            assert!(
+                gap.iter().all(|g| g.abs() <= 1e-9),
+                "{}: lines {l:?} vs exact {e:?}",
+                c.source
+            );
+        }
+    }
+}
+
+#[test]
 fn lines_within_tolerance() {
     assert_within_tolerance(dejavu(), Target::Lines);
 }

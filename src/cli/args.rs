@@ -168,10 +168,10 @@ pub enum VerifyAlign {
 
 #[derive(Args, Debug)]
 pub struct VerifyArgs {
-    /// The reference artwork (SVG, JSON outlines, G-code), or omit it and give --font/--text.
-    pub reference: Option<PathBuf>,
-    /// The converted file to check (SVG, JSON outlines or G-code).
-    pub candidate: PathBuf,
+    /// REFERENCE CANDIDATE: the reference artwork (SVG, JSON outlines, G-code) and the converted
+    /// file to check (SVG, JSON outlines or G-code); with --font/--text, only CANDIDATE.
+    #[arg(required = true, num_args = 1..=2, value_name = "FILE")]
+    pub files: Vec<PathBuf>,
     #[arg(long, default_value = "0.01mm")]
     pub tolerance: Tolerance,
     #[arg(long, value_enum, default_value_t = VerifyAlign::None)]
@@ -187,6 +187,18 @@ pub struct VerifyArgs {
     pub px_per_inch: f64,
     #[arg(short, long)]
     pub quiet: bool,
+}
+
+impl VerifyArgs {
+    /// The reference file, when two files are given.
+    pub fn reference(&self) -> Option<&PathBuf> {
+        (self.files.len() == 2).then(|| &self.files[0])
+    }
+
+    /// The candidate: the last file given.
+    pub fn candidate(&self) -> &PathBuf {
+        &self.files[self.files.len() - 1]
+    }
 }
 
 /// The font options of a reference given as text.

@@ -10,8 +10,9 @@ use crate::verify::{terminal_summary, verify, Align, VerifyOptions};
 use crate::write::html::verify_html;
 
 pub fn run(a: VerifyArgs) -> Result<Outcome, CliError> {
-    let mut read = vec![a.candidate.clone()];
-    let reference = match (&a.reference, &a.text.font, &a.text.text) {
+    let candidate_path = a.candidate().clone();
+    let mut read = vec![candidate_path.clone()];
+    let reference = match (a.reference(), &a.text.font, &a.text.text) {
         (Some(r), None, None) => {
             read.push(r.clone());
             inputs::read_outline(r, None, a.px_per_inch)?
@@ -38,11 +39,11 @@ pub fn run(a: VerifyArgs) -> Result<Outcome, CliError> {
             ))
         }
     };
-    let candidate = inputs::read_outline(&a.candidate, None, a.px_per_inch)?;
+    let candidate = inputs::read_outline(&candidate_path, None, a.px_per_inch)?;
     if candidate.contours.is_empty() {
         return Err(CliError::input(format!(
             "{}: the candidate has no contours to compare",
-            a.candidate.display()
+            candidate_path.display()
         )));
     }
     let outputs: Vec<&Path> = [&a.report, &a.html]

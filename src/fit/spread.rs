@@ -10,7 +10,9 @@
 //!
 //! Vertices stay on the curve where the curve's side changes or where a shop expects the cut to
 //! touch the drawing exactly: at corners, at straight lines, at inflections, at the x and y
-//! extrema (the drawing's extent is kept), and at the start of the contour. Between two such
+//! extrema, and at the start of the contour. No vertex passes the tangent line at either end of
+//! its span (its offset is capped by the curve's distance from that line), so at an extremum the
+//! drawing's extent is kept exactly. Between two such
 //! anchors the curve is one *span*: a run of source pieces, joined smoothly and all turning the
 //! same way. Each span is split greedily, every line as long as its certified deviation allows,
 //! the last one ending on the anchor. A span that does not turn (a straight curve) keeps its
@@ -46,6 +48,9 @@ struct Part {
     t0: f64,
     t1: f64,
 }
+
+/// A point of the curve and its outward unit normal (none where the tangent is undefined).
+type Anchor = (Point, Option<Vec2>);
 
 /// A run of parts between two anchors, turning one way (`turn` = +1 left, −1 right, 0 straight).
 #[derive(Debug)]
@@ -155,15 +160,32 @@ impl Span {
             .collect()
     }
 
-    /// The vertex at span position σ: on the curve, or `d` outside it.
-    fn vertex(&self, segs: &[Segment], sigma: f64, d: f64) -> Point {
+    /// The point at span position σ and the curve's outward unit normal there.
+    fn point_normal(&self, segs: &[Segment], sigma: f64) -> Anchor {
         let at = self.at(sigma);
         let s = &segs[at.segment];
-        let p = s.eval(at.t);
-        match s.tangent_at(at.t) {
-            Some(t) if d > 0.0 => p + d * self.turn * Vec2::new(t.y, -t.x),
-            _ => p,
-        }
+        let normal = s.tangent_at(at.t).map(|t| self.turn * Vec2::new(t.y, -t.x));
+        (s.eval(at.t), normal)
+    }
+
+    /// The vertex at span position σ: on the curve, or up to `d` outside it, but never past
+    /// the tangent lines at the span's two anchors. At an x or y extremum that tangent line is
+    /// the drawing's extent, so the lines never reach beyond it.
+    /// `anchors` are [`Span::point_normal`] at the span's two ends.
+    fn vertex(&self, segs: &[Segment], anchors: &[Anchor; 2], sigma: f64, d: f64) -> Point {
+        let (p, normal) = self.point_normal(segs, sigma);
+        let Some(n) = normal.filter(|_| d > 0.0) else {
+            return p;
+        };
+        let d = anchors
+            .iter()
+            .filter_map(|&(c, na)| {
+                let na = na?;
+                let cos = n.dot(na);
+                (cos > 0.0).then(|| (c - p).dot(na).max(0.0) / cos)
+            })
+            .fold(d, f64::min);
+        p + d * n
     }
 }
 
@@ -176,16 +198,17 @@ fn fit_span(segs: &[Segment], span: &Span, tol: f64, out: &mut Pieces) -> Result
     } else {
         OFFSET_SHARE * goal
     };
+    let anchors = [span.point_normal(segs, 0.0), span.point_normal(segs, end)];
     let line_to = |a: f64, va: Point, b: f64| {
         let d = if b >= end { 0.0 } else { offset };
-        let vb = span.vertex(segs, b.min(end), d);
+        let vb = span.vertex(segs, &anchors, b.min(end), d);
         let line = Line::new(va, vb);
         let source = span.source(segs, a, b.min(end));
         let dev = super::lines::line_deviation(&source, line);
         (line, source, dev)
     };
     let mut a = 0.0;
-    let mut va = span.vertex(segs, 0.0, 0.0);
+    let mut va = span.vertex(segs, &anchors, 0.0, 0.0);
     let mut step = end;
     while a < end {
         let error = |a: f64, b: f64| line_to(a, va, b).2.map_or(f64::INFINITY, |d| d.bound);
