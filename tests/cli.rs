@@ -594,3 +594,28 @@ fn verify_reads_units_on_both_sides() {
     let o = ratline(&["verify", &s(&svg), &s(&wrong)]);
     assert_eq!(o.status.code(), Some(1));
 }
+
+#[test]
+fn verify_against_text_takes_one_file() {
+    // With --font/--text the reference is the text, so verify takes the candidate alone. The
+    // written SVG's viewBox starts at the drawing's top-left (SVG 1.1 §7.7, from memory: its origin
+    // maps to the viewport origin), so the candidate is compared with --align bbox; lines keep
+    // each contour's exact extent, so the alignment moves it by rounding only.
+    let dir = tmp();
+    let out = dir.path().join("os.svg");
+    let font = repo("tests/fonts/DejaVuSans.ttf");
+    let job = ["--font", &font, "--text", "Os", "--cap-height", "20mm"];
+    let mut args = vec!["convert"];
+    args.extend(job);
+    let out_s = s(&out);
+    args.extend(["--to", "lines", "-o", &out_s, "-q"]);
+    let o = ratline(&args);
+    assert_eq!(o.status.code(), Some(0), "{}", text(&o).1);
+    let mut args = vec!["verify"];
+    args.extend(job);
+    args.extend([out_s.as_str(), "--align", "bbox"]);
+    let o = ratline(&args);
+    let (stdout, stderr) = text(&o);
+    assert_eq!(o.status.code(), Some(0), "{stdout}{stderr}");
+    assert!(stdout.contains("PASS"), "{stdout}");
+}
