@@ -451,6 +451,14 @@ pub fn run_job(
             segments: c.segments.len(),
         });
     }
+    // Every output point lies within the tolerance of the input, so an input the writers
+    // cannot hold (NaN, beyond ±1e6 mm) is refused before any fitting, which on such a
+    // contour could run for a very long time.
+    for c in &outline.contours {
+        for (i, seg) in c.segments.iter().enumerate() {
+            write::check_segment(seg, &c.source, i)?;
+        }
+    }
     let tol = job.tolerance;
     let decimals = decimals_for(tol);
     let main_formats: Vec<Format> = [

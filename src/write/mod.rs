@@ -52,7 +52,11 @@ fn point_as_written(p: Point, decimals: u32) -> Point {
 
 /// Refuse NaN, infinite or out-of-range numbers and non-positive arc radii: the points checked
 /// are the ones a writer prints (control points, arc end points, the arc's circle).
-fn check_segment(seg: &Segment, source: &Source, segment: usize) -> Result<(), WriteError> {
+pub(crate) fn check_segment(
+    seg: &Segment,
+    source: &Source,
+    segment: usize,
+) -> Result<(), WriteError> {
     let invalid = |reason: &'static str| WriteError::Invalid {
         source: source.clone(),
         segment,

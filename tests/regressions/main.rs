@@ -1,6 +1,6 @@
 //! Regression tests, each named for the defect it pins, each in its own temporary folder.
-//! (No fuzz target has crashed so far; crashing inputs found later go in this folder as files
-//! and get a test here that runs them through the binary.)
+//! Inputs found by the fuzz targets are kept in this folder as files, each with a test here
+//! that runs it through the binary.
 
 use std::fmt::Write;
 use std::process::Command;
@@ -112,4 +112,44 @@ fn extremum_at_a_segment_end_makes_no_empty_span() {
         f.contour.segments.len()
     );
     assert!(f.deviation.bound <= 0.01);
+}
+
+/// Found by the `convert` fuzz target (a libFuzzer timeout): an SVG arc with ry = 1.2e43 becomes
+/// a conic with coordinates near 1e43 mm, which the writers refuse, but fitting it first ran
+/// for minutes (quadratic, cubic and arcs targets). Inputs the writers cannot hold are now
+/// refused before any fitting, naming the element and segment.
+#[test]
+fn coordinates_beyond_the_writers_limit_are_refused_before_fitting() {
+    let input = concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/tests/regressions/fuzz-convert-huge-arc-radius.svg"
+    );
+    for target in ["lines", "quadratic", "cubic", "arcs"] {
+        let dir = tempfile::tempdir().unwrap();
+        let out = dir.path().join("out.svg");
+        let start = Instant::now();
+        let o = Command::new(env!("CARGO_BIN_EXE_ratline"))
+            .args([
+                "convert",
+                input,
+                "--to",
+                target,
+                "--tolerance",
+                "0.05mm",
+                "-o",
+            ])
+            .arg(&out)
+            .output()
+            .unwrap();
+        let took = start.elapsed();
+        let stderr = String::from_utf8_lossy(&o.stderr);
+        assert_eq!(o.status.code(), Some(2), "{target}: {stderr}");
+        assert!(
+            stderr.contains("path[1], contour 0: segment 4: a coordinate is beyond ±1e6 mm"),
+            "{target}: {stderr}"
+        );
+        assert!(!out.exists());
+        // Generous for a shared machine; before, every one of the three ran for minutes.
+        assert!(took < Duration::from_secs(10), "{target}: {took:?}");
+    }
 }
