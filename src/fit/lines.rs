@@ -189,7 +189,8 @@ mod tests {
 
     #[test]
     fn lines_off_the_curve_are_bounded_from_above() {
-        // The same quadratic (peak 5 above its chord) against lines raised by 2.5 and tilted:
+        // The same quadratic (peak 5 above its chord, REFERENCES §5) against lines raised by 2.5
+        // and tilted (derived: the raised line is 2.5 from the ends and from the peak):
         // the bound is never below the certified measurement, and for the raised line it is
         // the exact 2.5 on both sides.
         let q = Segment::Quad(QuadBez::new((0.0, 0.0), (5.0, 10.0), (10.0, 0.0)));
