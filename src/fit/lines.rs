@@ -28,20 +28,6 @@ use crate::measure::Deviation;
 /// Relative allowance for floating-point evaluation of the closed forms.
 const ROUNDING: f64 = 1e-12;
 
-/// The control points whose x must not decrease for x(t) to be non-decreasing.
-fn controls(s: &Segment) -> ArrayVec<Point, 4> {
-    let mut out = ArrayVec::new();
-    match s {
-        Segment::Line(l) => out.extend([l.p0, l.p1]),
-        Segment::Quad(q) => out.extend([q.p0, q.p1, q.p2]),
-        Segment::Cubic(c) => out.extend([c.p0, c.p1, c.p2, c.p3]),
-        Segment::Conic(k) => out.extend(k.points()),
-        // An arc is mapped to conics before this is asked.
-        Segment::Arc(_) => {}
-    }
-    out
-}
-
 /// The parameters where y′ = 0 inside (0, 1), for a segment in the line's frame: the roots of
 /// the y hodograph for Béziers (power basis), the y extrema otherwise.
 fn y_turns(s: &Segment) -> ArrayVec<f64, 4> {
@@ -97,7 +83,8 @@ pub fn line_deviation(sources: &[Segment], line: Line) -> Option<Deviation> {
         local.clear();
         s.transform(frame, &mut local);
         for s in &local {
-            for p in controls(s) {
+            // (An arc was mapped to conics by `transform`, so every piece has control points.)
+            for p in s.control_points() {
                 if p.x < x_prev {
                     return None;
                 }

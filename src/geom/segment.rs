@@ -245,6 +245,20 @@ impl Segment {
         }
     }
 
+    /// The control points of a line, Bézier or conic (a conic's as projected points, its weight
+    /// aside); none for a circular arc, which has a centre and radius instead.
+    pub fn control_points(&self) -> ArrayVec<Point, 4> {
+        let mut out = ArrayVec::new();
+        match self {
+            Segment::Line(l) => out.extend([l.p0, l.p1]),
+            Segment::Quad(q) => out.extend([q.p0, q.p1, q.p2]),
+            Segment::Cubic(c) => out.extend([c.p0, c.p1, c.p2, c.p3]),
+            Segment::Conic(k) => out.extend(k.points()),
+            Segment::Arc(_) => {}
+        }
+        out
+    }
+
     /// The parameters in (0, 1) where x or y has an extremum, in increasing order (for an arc,
     /// where its angle passes a multiple of 90°).
     pub fn extrema(&self) -> ArrayVec<f64, MAX_EXTREMA> {

@@ -63,22 +63,17 @@ pub(crate) fn check_segment(
         reason,
     };
     let ok = |v: f64| v.is_finite() && v.abs() <= MAX_COORDINATE_MM;
-    let pts: Vec<Point> = match seg {
-        Segment::Line(l) => vec![l.p0, l.p1],
-        Segment::Quad(q) => vec![q.p0, q.p1, q.p2],
-        Segment::Cubic(c) => vec![c.p0, c.p1, c.p2, c.p3],
-        Segment::Conic(c) => c.points().to_vec(),
-        Segment::Arc(a) => {
-            if !(a.radius.is_finite() && a.start_angle.is_finite() && a.sweep.is_finite()) {
-                return Err(invalid("a coordinate is NaN or infinite"));
-            }
-            if a.radius <= 0.0 {
-                return Err(invalid("the arc radius is not positive"));
-            }
-            let r = Vec2::new(a.radius, a.radius);
-            vec![a.center - r, a.center + r]
+    let mut pts = seg.control_points();
+    if let Segment::Arc(a) = seg {
+        if !(a.radius.is_finite() && a.start_angle.is_finite() && a.sweep.is_finite()) {
+            return Err(invalid("a coordinate is NaN or infinite"));
         }
-    };
+        if a.radius <= 0.0 {
+            return Err(invalid("the arc radius is not positive"));
+        }
+        let r = Vec2::new(a.radius, a.radius);
+        pts.extend([a.center - r, a.center + r]);
+    }
     if pts.iter().any(|p| !(p.x.is_finite() && p.y.is_finite())) {
         return Err(invalid("a coordinate is NaN or infinite"));
     }

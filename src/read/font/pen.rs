@@ -95,16 +95,7 @@ impl Pen {
 /// hull of its control points) encloses no area and a filled glyph draws nothing there. Font
 /// coordinates are small integers or f32 values, so the cross products are exact in f64.
 pub(crate) fn encloses_no_area(contour: &[Segment]) -> bool {
-    let points: Vec<Point> = contour
-        .iter()
-        .flat_map(|s| match s {
-            Segment::Line(l) => vec![l.p0, l.p1],
-            Segment::Quad(q) => vec![q.p0, q.p1, q.p2],
-            Segment::Cubic(c) => vec![c.p0, c.p1, c.p2, c.p3],
-            Segment::Conic(k) => k.points().to_vec(),
-            Segment::Arc(_) => vec![],
-        })
-        .collect();
+    let points: Vec<Point> = contour.iter().flat_map(Segment::control_points).collect();
     let Some(&a) = points.first() else {
         return true;
     };
