@@ -245,7 +245,8 @@ fn cases() -> Vec<Case> {
         Case { name: "output segment limit", files: vec![("in.svg", svg(r#"<circle cx="50" cy="50" r="40"/>"#))], args: &["{dir}/in.svg", "--to", "lines", "--tolerance", "0.000001mm", "--max-segments", "1000"],
             expect: Expect::Refused(&["the output passed the limit of 1000 segments (--max-segments)", "after fitting 0 of 1 contours"]) },
         // One contour alone that would need about 1.5e6 lines (a circle of radius 900 m at
-        // 1e-6 mm, error split both sides: n = ⌈π / arccos((r − t)/(r + t))⌉ ≈ π/√(4t/r)):
+        // 1e-6 mm, error split both sides: n = ⌈π / arccos((r − t)/(r + t))⌉ ≈ π/√(4t/r),
+        // REFERENCES §3):
         // stopped inside the fit, before the lines are built.
         Case { name: "one huge circle at a micrometre", files: vec![("in.svg", svg(r#"<circle cx="0" cy="0" r="9e5"/>"#))], args: &["{dir}/in.svg", "--to", "lines", "--tolerance", "0.000001mm", "--max-segments", "100000"],
             expect: Expect::Refused(&["the output passed the limit of 100000 segments (--max-segments)", "after fitting 0 of 1 contours"]) },
