@@ -59,6 +59,12 @@ fn y_turns(s: &Segment) -> ArrayVec<f64, 4> {
 /// one line, when the run is a graph over the line; `None` otherwise (or for a line of zero
 /// length).
 pub fn line_deviation(sources: &[Segment], line: Line) -> Option<Deviation> {
+    line_deviation_and_spread(sources, line).map(|(d, _)| d)
+}
+
+/// [`line_deviation`] and the run's spread across the line: max y − min y, the curve's own
+/// bulge over the line's direction, whatever the line's offset.
+pub fn line_deviation_and_spread(sources: &[Segment], line: Line) -> Option<(Deviation, f64)> {
     let (v0, v1) = (line.p0, line.p1);
     let d = v1 - v0;
     let len = d.hypot();
@@ -78,11 +84,22 @@ pub fn line_deviation(sources: &[Segment], line: Line) -> Option<Deviation> {
     ]);
     let mut x_prev = f64::NEG_INFINITY;
     let (mut h, mut at) = (0.0, Point::ORIGIN);
-    let mut local = Vec::new();
+    let (mut y_min, mut y_max) = (f64::INFINITY, f64::NEG_INFINITY);
+    let mut arcs = Vec::new();
     for s in sources {
-        local.clear();
-        s.transform(frame, &mut local);
-        for s in &local {
+        let one;
+        let local = match s.transform_one(frame) {
+            Some(s) => {
+                one = [s];
+                &one[..]
+            }
+            None => {
+                arcs.clear();
+                s.transform(frame, &mut arcs);
+                &arcs[..]
+            }
+        };
+        for s in local {
             // (An arc was mapped to conics by `transform`, so every piece has control points.)
             for p in s.control_points() {
                 if p.x < x_prev {
@@ -92,6 +109,7 @@ pub fn line_deviation(sources: &[Segment], line: Line) -> Option<Deviation> {
             }
             for t in [0.0, 1.0].into_iter().chain(y_turns(s)) {
                 let p = s.eval(t);
+                (y_min, y_max) = (y_min.min(p.y), y_max.max(p.y));
                 if p.y.abs() > h {
                     (h, at) = (p.y.abs(), p);
                 }
@@ -108,11 +126,12 @@ pub fn line_deviation(sources: &[Segment], line: Line) -> Option<Deviation> {
         first.start()
     };
     let scale = v0.to_vec2().hypot().max(v1.to_vec2().hypot()).max(len);
-    Some(Deviation {
+    let deviation = Deviation {
         bound: h.max(ends) + overhang + ROUNDING * scale,
         sampled: h,
         at: [at.x, at.y],
-    })
+    };
+    Some((deviation, y_max - y_min))
 }
 
 #[cfg(test)]

@@ -444,15 +444,16 @@ fn greedy(
     let error = |t0: f64, t1: f64| {
         let sub = s.subsegment(t0, t1);
         let approx = approximate(target, &sub);
-        match closed_form(&sub, &approx) {
+        let e = match closed_form(&sub, &approx) {
             Some(d) => d.bound,
             None => measure::estimate(&[sub], &approx, 16),
-        }
+        };
+        (e, ())
     };
     let mut t0 = 0.0;
     let mut step: f64 = 1.0;
     while t0 < 1.0 {
-        let mut t1 = search_end(t0, 1.0, step, goal, &error);
+        let (mut t1, ()) = search_end(t0, 1.0, step, goal, |t1| error(t0, t1));
         let piece = loop {
             let sub = s.subsegment(t0, t1);
             let p = certify(
@@ -482,49 +483,69 @@ fn greedy(
     Ok(())
 }
 
+/// A search settles for any length whose error is within this share below the goal.
+const SEARCH_WINDOW: f64 = 0.03;
+
 /// The largest t1 in (t0, end] whose error is within the goal, assuming the error grows with the
 /// piece roughly as a power of its length (error ∝ hᵖ, p = 2 for chords, higher for curves): a
 /// safeguarded secant on log(error) against log(h) inside a bracket [feasible, infeasible],
-/// starting from the previous piece's length and stopping within 0.5% below the goal.
-fn search_end(t0: f64, end: f64, step: f64, goal: f64, error: &impl Fn(f64, f64) -> f64) -> f64 {
+/// starting from `guess` (the previous piece's length, say) and stopping within
+/// [`SEARCH_WINDOW`] below the goal. `error` returns the error of the piece ending at t1 and
+/// what the caller keeps of that evaluation; the search returns the end it settled on with
+/// that value (the last piece tried when none was within the goal).
+fn search_end<T>(
+    t0: f64,
+    end: f64,
+    guess: f64,
+    goal: f64,
+    mut error: impl FnMut(f64) -> (f64, T),
+) -> (f64, T) {
     let whole = end - t0;
-    let e_whole = error(t0, end);
-    if e_whole <= goal {
-        return end;
-    }
-    let target = 0.998 * goal;
-    let (mut lo, mut e_lo) = (0.0, 0.0);
-    let (mut hi, mut e_hi) = (whole, e_whole);
-    let mut h = step.min(0.5 * whole);
-    for _ in 0..24 {
-        let e = error(t0, t0 + h);
+    let target = (1.0 - 0.5 * SEARCH_WINDOW) * goal;
+    // The bracket: the longest piece within the goal so far (0 when none), the shortest over it.
+    let (mut h_lo, mut e_lo) = (0.0, 0.0);
+    let (mut h_hi, mut e_hi) = (f64::INFINITY, f64::INFINITY);
+    let mut h = guess.clamp(1e-9_f64.min(whole), whole);
+    let (mut e, value) = error(t0 + h);
+    // What the search returns: the longest piece within the goal, else the last one tried.
+    let mut best = (t0 + h, value, e <= goal);
+    for _ in 0..32 {
         if e <= goal {
-            (lo, e_lo) = (h, e);
-            if e >= 0.995 * goal {
+            (h_lo, e_lo) = (h, e);
+            if e >= (1.0 - SEARCH_WINDOW) * goal || h >= whole {
                 break;
             }
         } else {
-            (hi, e_hi) = (h, e);
+            (h_hi, e_hi) = (h, e);
         }
-        let guess = if lo > 0.0 && e_lo > 0.0 && e_hi > e_lo {
-            let p = (e_hi / e_lo).ln() / (hi / lo).ln();
-            lo * (target / e_lo).powf(1.0 / p.max(0.5))
-        } else if lo > 0.0 {
-            2.0 * lo
+        let next = if e_lo > 0.0 && e_hi.is_finite() && e_hi > e_lo {
+            let p = (e_hi / e_lo).ln() / (h_hi / h_lo).ln();
+            h_lo * (target / e_lo).powf(1.0 / p.max(0.5))
+        } else if e_lo > 0.0 {
+            h_lo * (target / e_lo).sqrt().min(4.0)
+        } else if h_lo > 0.0 {
+            2.0 * h_lo
+        } else if e_hi.is_finite() {
+            h_hi * (target / e_hi).sqrt().clamp(0.05, 0.9)
         } else {
-            h * (target / e).sqrt().min(0.5)
+            0.5 * h
         };
-        let margin = 0.01 * (hi - lo);
-        h = guess.clamp(lo + margin, hi - margin);
-        if hi - lo <= 1e-12 {
-            break;
+        h = if h_hi.is_finite() {
+            if h_hi - h_lo <= 1e-12 {
+                break;
+            }
+            let margin = 0.01 * (h_hi - h_lo);
+            next.clamp(h_lo + margin, h_hi - margin)
+        } else {
+            next.min(whole)
+        };
+        let (e_next, value) = error(t0 + h);
+        if e_next <= goal || !best.2 {
+            best = (t0 + h, value, e_next <= goal);
         }
+        e = e_next;
     }
-    if lo > 0.0 {
-        t0 + lo
-    } else {
-        (t0 + h.max(1e-9)).min(end)
-    }
+    (best.0, best.1)
 }
 
 #[cfg(test)]

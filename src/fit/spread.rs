@@ -14,9 +14,9 @@
 //! its span (its offset is capped by the curve's distance from that line), so at an extremum the
 //! drawing's extent is kept exactly. Between two such
 //! anchors the curve is one *span*: a run of source pieces, joined smoothly and all turning the
-//! same way. Each span is split greedily, every line as long as its certified deviation allows,
-//! the last one ending on the anchor. A span that does not turn (a straight curve) keeps its
-//! vertices on the curve (d = 0).
+//! same way. Each span is split greedily, every line nearly as long as its certified deviation
+//! allows (within the search's window), the last one ending on the anchor. A span that does not
+//! turn (a straight curve) keeps its vertices on the curve (d = 0).
 //!
 //! Every line is certified by the exact closed form of `lines.rs` (or by `measure` where the
 //! span is not a graph over the line), so the reported deviation stays a certified bound.
@@ -30,13 +30,13 @@ use std::f64::consts::PI;
 
 use kurbo::{Line, Point, Vec2};
 
-use super::{search_end, At, OverLimit, Piece, Pieces, CERT_SLACK, SEARCH_GOAL};
+use super::{search_end, At, OverLimit, Piece, Pieces, CERT_SLACK, SEARCH_GOAL, SEARCH_WINDOW};
 use crate::geom::{CircularArc, Segment};
 use crate::measure::{self, Deviation};
 
-/// Offsets of the vertices as a share of the search goal: a little below it, so the end
-/// offsets never decide a line's length (the bulge does).
-const OFFSET_SHARE: f64 = 0.98;
+/// Offsets of the vertices as a share of the search goal: below the bottom of the search's
+/// window, so the end offsets never decide a line's length (the bulge does).
+const OFFSET_SHARE: f64 = 0.95;
 
 /// Joins whose tangents differ by less than this (sine of the angle) are smooth.
 const SMOOTH_SIN: f64 = 1e-6;
@@ -143,21 +143,38 @@ impl Span {
         }
     }
 
-    /// The exact source between span positions a < b.
-    fn source(&self, segs: &[Segment], a: f64, b: f64) -> Vec<Segment> {
+    /// The exact source between span positions a < b, into `out` (cleared first).
+    fn source_into(&self, segs: &[Segment], a: f64, b: f64, out: &mut Vec<Segment>) {
         let (ka, kb) = (
             a.floor() as usize,
             (b.ceil() as usize).min(self.parts.len()),
         );
-        (ka..kb.max(ka + 1))
-            .filter_map(|k| {
-                let p = self.parts[k.min(self.parts.len() - 1)];
-                let f0 = (a - k as f64).clamp(0.0, 1.0);
-                let f1 = (b - k as f64).clamp(0.0, 1.0);
-                let (t0, t1) = (p.t0 + f0 * (p.t1 - p.t0), p.t0 + f1 * (p.t1 - p.t0));
-                (t1 > t0).then(|| segs[p.index].subsegment(t0, t1))
-            })
-            .collect()
+        out.clear();
+        out.extend((ka..kb.max(ka + 1)).filter_map(|k| {
+            let p = self.parts[k.min(self.parts.len() - 1)];
+            let f0 = (a - k as f64).clamp(0.0, 1.0);
+            let f1 = (b - k as f64).clamp(0.0, 1.0);
+            let (t0, t1) = (p.t0 + f0 * (p.t1 - p.t0), p.t0 + f1 * (p.t1 - p.t0));
+            (t1 > t0).then(|| segs[p.index].subsegment(t0, t1))
+        }));
+    }
+
+    /// A first guess at the length, in span positions, of a line from σ = `a` over which the
+    /// curve bulges by `bulge`: a chord of arc length ℓ where the curvature is κ bulges by about
+    /// κℓ²/8 (the sagitta of the osculating circle), taken at the curvature half a step ahead.
+    fn guess(&self, segs: &[Segment], a: f64, bulge: f64) -> f64 {
+        let k = (a.floor() as usize).min(self.parts.len() - 1);
+        let p = self.parts[k];
+        let s = &segs[p.index];
+        let step_at =
+            |t: f64| (8.0 * bulge / s.curvature_at(t).abs()).sqrt() / s.deriv_at(t).hypot();
+        let t = self.at(a).t;
+        let h = step_at((t + 0.5 * step_at(t)).min(p.t1)) / (p.t1 - p.t0);
+        if h.is_finite() && h > 0.0 {
+            h
+        } else {
+            self.parts.len() as f64 - a
+        }
     }
 
     /// The point at span position σ and the curve's outward unit normal there.
@@ -189,7 +206,28 @@ impl Span {
     }
 }
 
+/// The bulge a line's first guess aims at (see [`fit_span`]), a little inside the search's
+/// window: the goal g plus the offset d between two offset vertices; from a vertex on the curve,
+/// where the line rises by d·u along its length while the curve bulges by about 4s·u(1 − u),
+/// the largest s with max over u of (4s·u(1 − u) − d·u) = g, which is
+/// s = ((d + 2g) + √((d + 2g)² − d²)) / 4 [derived].
+fn aimed_bulge(from_curve: bool, g: f64, d: f64) -> f64 {
+    let s = if from_curve {
+        ((d + 2.0 * g) + ((d + 2.0 * g).powi(2) - d * d).sqrt()) / 4.0
+    } else {
+        g + d
+    };
+    (1.0 - 0.5 * SEARCH_WINDOW) * s
+}
+
 /// Fit one span with lines, vertices `offset` outside the curve except at its two ends.
+///
+/// Each line is searched for on the curve's spread across it (max y − min y in the line's
+/// frame), which grows with the square of the line's length: a line between offset vertices
+/// may bulge by the goal plus the offset. The certified bound counts too, scaled to the same
+/// goal (it decides the first line, which starts on the curve). The search starts from the
+/// length the local curvature predicts ([`Span::guess`]) and settles within its window, so most
+/// lines cost one or two evaluations of the closed form.
 fn fit_span(segs: &[Segment], span: &Span, tol: f64, out: &mut Pieces) -> Result<(), OverLimit> {
     let goal = SEARCH_GOAL * tol;
     let end = span.parts.len() as f64;
@@ -198,20 +236,18 @@ fn fit_span(segs: &[Segment], span: &Span, tol: f64, out: &mut Pieces) -> Result
     } else {
         OFFSET_SHARE * goal
     };
+    let spread_goal = goal + offset;
     let anchors = [span.point_normal(segs, 0.0), span.point_normal(segs, end)];
-    let line_to = |a: f64, va: Point, b: f64| {
+    let mut source = Vec::new();
+    let mut line_to = |a: f64, va: Point, b: f64| {
         let d = if b >= end { 0.0 } else { offset };
-        let vb = span.vertex(segs, &anchors, b.min(end), d);
-        let line = Line::new(va, vb);
-        let source = span.source(segs, a, b.min(end));
-        let dev = super::lines::line_deviation(&source, line);
-        (line, source, dev)
+        let line = Line::new(va, span.vertex(segs, &anchors, b, d));
+        span.source_into(segs, a, b, &mut source);
+        (line, super::lines::line_deviation_and_spread(&source, line))
     };
     let mut a = 0.0;
     let mut va = span.vertex(segs, &anchors, 0.0, 0.0);
-    let mut step = end;
     while a < end {
-        let error = |a: f64, b: f64| line_to(a, va, b).2.map_or(f64::INFINITY, |d| d.bound);
         // A line never ends a hair before a part's end: the sliver left over would be a
         // piece too short to evaluate reliably.
         let snap = |b: f64| {
@@ -219,26 +255,33 @@ fn fit_span(segs: &[Segment], span: &Span, tol: f64, out: &mut Pieces) -> Result
             if (b - k).abs() < SAME_T && k > a {
                 k.min(end)
             } else {
-                b
+                b.min(end)
             }
         };
-        let mut b = snap(search_end(a, end, step, goal, &error));
-        let (line, deviation) = loop {
-            let (line, _, dev) = line_to(a, va, b);
-            match dev {
-                Some(d) if d.bound <= tol => break (line, d),
+        let guess = span.guess(segs, a, aimed_bulge(a == 0.0, goal, offset));
+        let (b, (mut line, mut found)) = search_end(a, end, guess, spread_goal, |b| {
+            let (line, found) = line_to(a, va, snap(b));
+            let e = found.map_or(f64::INFINITY, |(d, s)| s.max(d.bound / goal * spread_goal));
+            (e, (line, found))
+        });
+        let mut b = snap(b);
+        let deviation = loop {
+            match found {
+                Some((d, _)) if d.bound <= tol => break d,
                 _ if b - a < SAME_T => {
                     // No line this short has a closed form: one line to the span's end,
                     // measured as it is (and reported if over the tolerance).
                     b = end;
-                    let (line, source, _) = line_to(a, va, b);
+                    line = line_to(a, va, b).0;
+                    let mut source = Vec::new();
+                    span.source_into(segs, a, b, &mut source);
                     let out = [Segment::Line(line)];
-                    break (
-                        line,
-                        measure::hausdorff_within(&source, &out, CERT_SLACK * tol, tol),
-                    );
+                    break measure::hausdorff_within(&source, &out, CERT_SLACK * tol, tol);
                 }
-                _ => b = snap(a + 0.8 * (b - a)),
+                _ => {
+                    b = snap(a + 0.8 * (b - a));
+                    (line, found) = line_to(a, va, b);
+                }
             }
         };
         out.push(Piece {
@@ -247,7 +290,6 @@ fn fit_span(segs: &[Segment], span: &Span, tol: f64, out: &mut Pieces) -> Result
             to: span.at(b),
             deviation,
         })?;
-        step = b - a;
         a = b;
         va = line.p1;
     }

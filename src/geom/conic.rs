@@ -157,6 +157,17 @@ impl Conic {
         Vec2::new((d.x * h.z - h.x * d.z) / w2, (d.y * h.z - h.y * d.z) / w2)
     }
 
+    /// Signed curvature at t (positive turning left). For a rational curve C = (H.x, H.y) / H.z,
+    /// x′y″ − y′x″ = det(H, H′, H″) / H.z³; for a quadratic H that determinant is constant (its
+    /// derivative is det(H, H′, H‴) = 0), 4·det(H₀, H₁, H₂) at t = 0 [derived], so
+    /// κ = 4·det(H₀, H₁, H₂) / (H.z³·|C′|³).
+    pub fn curvature_at(&self, t: f64) -> f64 {
+        let det = self.h[0].dot(&self.h[1].cross(&self.h[2]));
+        let w = self.eval_homogeneous(t).z;
+        let speed = self.deriv_at(t).hypot();
+        4.0 * det / (w * w * w * speed * speed * speed)
+    }
+
     /// A rigorous upper bound on |C'(t)| over t in [0, 1].
     pub fn speed_bound(&self) -> f64 {
         let dmax = self

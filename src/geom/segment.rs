@@ -16,6 +16,12 @@ use serde::Serialize;
 
 use super::{CircularArc, Conic};
 
+/// Signed curvature from velocity and acceleration, (v × a) / |v|³.
+fn bending(v: Vec2, a: Vec2) -> f64 {
+    let speed = v.hypot();
+    v.cross(a) / (speed * speed * speed)
+}
+
 /// A contour segment, in millimetres.
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub enum Segment {
@@ -120,6 +126,24 @@ impl Segment {
             Segment::Cubic(s) => s.deriv().eval(t).to_vec2(),
             Segment::Conic(s) => s.deriv_at(t),
             Segment::Arc(s) => s.deriv_at(t),
+        }
+    }
+
+    /// Signed curvature at t (positive turning left; infinite or NaN where the velocity
+    /// vanishes).
+    pub fn curvature_at(&self, t: f64) -> f64 {
+        match self {
+            Segment::Line(_) => 0.0,
+            Segment::Quad(s) => bending(
+                s.deriv().eval(t).to_vec2(),
+                s.deriv().deriv().eval(t).to_vec2(),
+            ),
+            Segment::Cubic(s) => bending(
+                s.deriv().eval(t).to_vec2(),
+                s.deriv().deriv().eval(t).to_vec2(),
+            ),
+            Segment::Conic(s) => s.curvature_at(t),
+            Segment::Arc(s) => s.sweep.signum() / s.radius,
         }
     }
 
@@ -234,14 +258,24 @@ impl Segment {
     /// Apply an affine map exactly. A circular arc stays an arc under a similarity and becomes
     /// conics otherwise, so the result may hold more than one segment.
     pub fn transform(&self, a: Affine, out: &mut Vec<Segment>) {
-        match self {
-            Segment::Line(s) => out.push(Segment::Line(a * *s)),
-            Segment::Quad(s) => out.push(Segment::Quad(a * *s)),
-            Segment::Cubic(s) => out.push(Segment::Cubic(a * *s)),
-            Segment::Conic(s) => out.push(Segment::Conic(s.transform(a))),
-            Segment::Arc(s) => {
+        match (self, self.transform_one(a)) {
+            (_, Some(s)) => out.push(s),
+            (Segment::Arc(s), None) => {
                 out.extend(s.to_conics().iter().map(|c| Segment::Conic(c.transform(a))))
             }
+            (_, None) => {}
+        }
+    }
+
+    /// An affine map applied exactly to a line, Bézier or conic; `None` for a circular arc
+    /// (see [`Segment::transform`]).
+    pub fn transform_one(&self, a: Affine) -> Option<Segment> {
+        match self {
+            Segment::Line(s) => Some(Segment::Line(a * *s)),
+            Segment::Quad(s) => Some(Segment::Quad(a * *s)),
+            Segment::Cubic(s) => Some(Segment::Cubic(a * *s)),
+            Segment::Conic(s) => Some(Segment::Conic(s.transform(a))),
+            Segment::Arc(_) => None,
         }
     }
 
@@ -314,6 +348,54 @@ mod tests {
             Segment::Arc(a).arclen(1e-9),
             5.0 * std::f64::consts::PI,
             epsilon = 1e-12
+        );
+    }
+
+    #[test]
+    fn curvature_of_every_kind() {
+        use kurbo::ParamCurveCurvature;
+        let quarter = |r: f64| CircularArc {
+            center: Point::ORIGIN,
+            radius: r,
+            start_angle: 0.0,
+            sweep: std::f64::consts::FRAC_PI_2,
+        };
+        // A circle of radius r bends by 1/r, turning left when the sweep is positive (standard
+        // geometry), as an arc and as its exact conic.
+        let arc = quarter(10.0);
+        let conic = Segment::Conic(arc.to_conics()[0]);
+        for t in [0.0, 0.3, 1.0] {
+            assert_abs_diff_eq!(Segment::Arc(arc).curvature_at(t), 0.1, epsilon = 1e-15);
+            assert_abs_diff_eq!(conic.curvature_at(t), 0.1, epsilon = 1e-12);
+            assert_abs_diff_eq!(conic.reversed().curvature_at(t), -0.1, epsilon = 1e-12);
+        }
+        // The ellipse x = a·cos θ, y = b·sin θ bends by a/b² at (a, 0) and b/a² at (0, b)
+        // (standard formula κ = ab / (a²sin²θ + b²cos²θ)^(3/2)); its quarter is the unit
+        // quarter circle's conic scaled, exactly.
+        let (a, b) = (5.0, 2.0);
+        let ellipse =
+            Segment::Conic(quarter(1.0).to_conics()[0].transform(Affine::scale_non_uniform(a, b)));
+        assert_abs_diff_eq!(ellipse.curvature_at(0.0), a / (b * b), epsilon = 1e-12);
+        assert_abs_diff_eq!(ellipse.curvature_at(1.0), b / (a * a), epsilon = 1e-12);
+        // Polynomial Béziers agree with kurbo's own curvature (whose sign is the opposite:
+        // kurbo 0.13 computes a × v).
+        let q = QuadBez::new((0.0, 0.0), (5.0, 10.0), (10.0, 0.0));
+        let c = CubicBez::new((0.0, 0.0), (0.0, 10.0), (10.0, -10.0), (10.0, 0.0));
+        for t in [0.0, 0.25, 0.5, 0.9] {
+            assert_abs_diff_eq!(
+                Segment::Quad(q).curvature_at(t),
+                -q.curvature(t),
+                epsilon = 1e-12
+            );
+            assert_abs_diff_eq!(
+                Segment::Cubic(c).curvature_at(t),
+                -c.curvature(t),
+                epsilon = 1e-12
+            );
+        }
+        assert_eq!(
+            Segment::Line(Line::new((0.0, 0.0), (1.0, 1.0))).curvature_at(0.5),
+            0.0
         );
     }
 
