@@ -13,6 +13,11 @@
 //!
 //! So d_H ≤ max(max|y|, |V0 − C₀|, |V1 − C₁|) + the overhangs, and max|y| ≤ d_H is attained.
 //!
+//! Pieces of a run meet only up to rounding (a subdivided conic's end point is a quotient). Where
+//! one piece starts a distance j from the previous one's end, x may step back by j there; every
+//! claim above then holds up to j (a line point over the gap is within j of one over a piece, and
+//! the curve reaches at most j further back), so the bound grows by the sum of the gaps.
+//!
 //! y is an affine function of C(t), so its extremes lie at the ends or where y′ = 0: the y
 //! extrema of the run mapped into the line's frame (a rigid motion, exact for every segment
 //! kind). With the line's ends on the curve (a chord) the bound is exactly max|y|, the chord's
@@ -29,30 +34,35 @@ use crate::measure::Deviation;
 const ROUNDING: f64 = 1e-12;
 
 /// The parameters where y′ = 0 inside (0, 1), for a segment in the line's frame: the roots of
-/// the y hodograph for Béziers (power basis), the y extrema otherwise.
+/// the numerator of y′, a quadratic in Bernstein form for every kind but an arc (the hodograph of
+/// a quadratic or cubic, Farin §5.3; for a conic the numerator of the quotient rule, `conic.rs`),
+/// the y extrema otherwise.
 fn y_turns(s: &Segment) -> ArrayVec<f64, 4> {
     let inside = |t: &f64| *t > 0.0 && *t < 1.0;
-    let mut out = ArrayVec::new();
+    // y′ ∝ a(1−t)² + 2b·t(1−t) + c·t² (a, b, c the y components of the coefficients).
+    let bernstein = |a: f64, b: f64, c: f64| {
+        solve_quadratic(a, 2.0 * (b - a), a - 2.0 * b + c)
+            .into_iter()
+            .filter(inside)
+            .collect()
+    };
     match s {
-        Segment::Line(_) => {}
+        Segment::Line(_) => ArrayVec::new(),
         Segment::Quad(q) => {
             let den = q.p0.y - 2.0 * q.p1.y + q.p2.y;
+            let mut out = ArrayVec::new();
             if den != 0.0 {
                 out.extend(Some((q.p0.y - q.p1.y) / den).filter(inside));
             }
+            out
         }
-        Segment::Cubic(c) => {
-            // y′/3 = a(1−t)² + 2b·t(1−t) + c·t² with a, b, c the hodograph's y values.
-            let (a, b, cc) = (c.p1.y - c.p0.y, c.p2.y - c.p1.y, c.p3.y - c.p2.y);
-            out.extend(
-                solve_quadratic(a, 2.0 * (b - a), a - 2.0 * b + cc)
-                    .into_iter()
-                    .filter(inside),
-            );
+        Segment::Cubic(c) => bernstein(c.p1.y - c.p0.y, c.p2.y - c.p1.y, c.p3.y - c.p2.y),
+        Segment::Conic(k) => {
+            let [a, b, c] = k.deriv_numerator();
+            bernstein(a.y, b.y, c.y)
         }
-        _ => out.extend(s.extrema()),
+        Segment::Arc(_) => s.extrema().into_iter().collect(),
     }
-    out
 }
 
 /// A certified bound on the Hausdorff distance between a connected run of source pieces and
@@ -83,6 +93,7 @@ pub fn line_deviation_and_spread(sources: &[Segment], line: Line) -> Option<(Dev
         -v0.to_vec2().dot(n),
     ]);
     let mut x_prev = f64::NEG_INFINITY;
+    let (mut prev_end, mut gaps): (Option<Point>, f64) = (None, 0.0);
     let (mut h, mut at) = (0.0, Point::ORIGIN);
     let (mut y_min, mut y_max) = (f64::INFINITY, f64::NEG_INFINITY);
     let mut arcs = Vec::new();
@@ -101,12 +112,18 @@ pub fn line_deviation_and_spread(sources: &[Segment], line: Line) -> Option<(Dev
         };
         for s in local {
             // (An arc was mapped to conics by `transform`, so every piece has control points.)
-            for p in s.control_points() {
+            let points = s.control_points();
+            if let (Some(end), Some(start)) = (prev_end, points.first()) {
+                let gap = (*start - end).hypot();
+                (gaps, x_prev) = (gaps + gap, x_prev - gap);
+            }
+            for p in &points {
                 if p.x < x_prev {
                     return None;
                 }
                 x_prev = p.x;
             }
+            prev_end = points.last().copied();
             for t in [0.0, 1.0].into_iter().chain(y_turns(s)) {
                 let p = s.eval(t);
                 (y_min, y_max) = (y_min.min(p.y), y_max.max(p.y));
@@ -127,7 +144,7 @@ pub fn line_deviation_and_spread(sources: &[Segment], line: Line) -> Option<(Dev
     };
     let scale = v0.to_vec2().hypot().max(v1.to_vec2().hypot()).max(len);
     let deviation = Deviation {
-        bound: h.max(ends) + overhang + ROUNDING * scale,
+        bound: h.max(ends) + overhang + gaps + ROUNDING * scale,
         sampled: h,
         at: [at.x, at.y],
     };

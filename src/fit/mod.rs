@@ -531,7 +531,9 @@ fn search_end<T>(
             0.5 * h
         };
         h = if h_hi.is_finite() {
-            if h_hi - h_lo <= 1e-12 {
+            // A bracket this narrow pins the length within half the window (the error grows at
+            // least as fast as the length): the best within the goal is close enough.
+            if h_hi - h_lo <= 0.5 * SEARCH_WINDOW * h_lo || h_hi - h_lo <= 1e-12 {
                 break;
             }
             let margin = 0.01 * (h_hi - h_lo);

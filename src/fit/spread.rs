@@ -160,14 +160,14 @@ impl Span {
     }
 
     /// A first guess at the length, in span positions, of a line from σ = `a` over which the
-    /// curve bulges by `bulge`: a chord of arc length ℓ where the curvature is κ bulges by about
-    /// κℓ²/8 (the sagitta of the osculating circle), taken at the curvature half a step ahead.
+    /// curve bulges by `bulge`: over a parameter step h the curve bulges by about n·h²/8, n its
+    /// acceleration across its direction (exact for a parabola, n taken at the step's middle),
+    /// taken here half a step ahead.
     fn guess(&self, segs: &[Segment], a: f64, bulge: f64) -> f64 {
         let k = (a.floor() as usize).min(self.parts.len() - 1);
         let p = self.parts[k];
         let s = &segs[p.index];
-        let step_at =
-            |t: f64| (8.0 * bulge / s.curvature_at(t).abs()).sqrt() / s.deriv_at(t).hypot();
+        let step_at = |t: f64| (8.0 * bulge / s.normal_acceleration_at(t).abs()).sqrt();
         let t = self.at(a).t;
         let h = step_at((t + 0.5 * step_at(t)).min(p.t1)) / (p.t1 - p.t0);
         if h.is_finite() && h > 0.0 {
@@ -224,8 +224,9 @@ fn aimed_bulge(from_curve: bool, g: f64, d: f64) -> f64 {
 ///
 /// Each line is searched for on the curve's spread across it (max y − min y in the line's
 /// frame), which grows with the square of the line's length: a line between offset vertices
-/// may bulge by the goal plus the offset. The certified bound counts too, scaled to the same
-/// goal (it decides the first line, which starts on the curve). The search starts from the
+/// may bulge by the goal plus the offset. A line whose certified bound is over the goal counts
+/// as over it, scaled to the same goal (the bound decides the first line, which starts on the
+/// curve and tilts towards the offset vertex). The search starts from the
 /// length the local curvature predicts ([`Span::guess`]) and settles within its window, so most
 /// lines cost one or two evaluations of the closed form.
 fn fit_span(segs: &[Segment], span: &Span, tol: f64, out: &mut Pieces) -> Result<(), OverLimit> {
@@ -261,7 +262,11 @@ fn fit_span(segs: &[Segment], span: &Span, tol: f64, out: &mut Pieces) -> Result
         let guess = span.guess(segs, a, aimed_bulge(a == 0.0, goal, offset));
         let (b, (mut line, mut found)) = search_end(a, end, guess, spread_goal, |b| {
             let (line, found) = line_to(a, va, snap(b));
-            let e = found.map_or(f64::INFINITY, |(d, s)| s.max(d.bound / goal * spread_goal));
+            let e = match found {
+                Some((d, s)) if d.bound <= goal => s,
+                Some((d, s)) => s.max(d.bound / goal * spread_goal),
+                None => f64::INFINITY,
+            };
             (e, (line, found))
         });
         let mut b = snap(b);

@@ -142,8 +142,9 @@ impl Conic {
         a.lerp(&b, v)
     }
 
-    /// The derivative numerator's Bernstein coefficients (see the module doc).
-    fn deriv_numerator(&self) -> [Vec2; 3] {
+    /// The derivative numerator's Bernstein coefficients (see the module doc), for the basis
+    /// (1 − t)², 2t(1 − t), t².
+    pub fn deriv_numerator(&self) -> [Vec2; 3] {
         let [p0, p1, p2] = self.points();
         let w = self.weight();
         [2.0 * w * (p1 - p0), p2 - p0, 2.0 * w * (p2 - p1)]
@@ -157,15 +158,14 @@ impl Conic {
         Vec2::new((d.x * h.z - h.x * d.z) / w2, (d.y * h.z - h.y * d.z) / w2)
     }
 
-    /// Signed curvature at t (positive turning left). For a rational curve C = (H.x, H.y) / H.z,
-    /// x′y″ − y′x″ = det(H, H′, H″) / H.z³; for a quadratic H that determinant is constant (its
-    /// derivative is det(H, H′, H‴) = 0), 4·det(H₀, H₁, H₂) at t = 0 [derived], so
-    /// κ = 4·det(H₀, H₁, H₂) / (H.z³·|C′|³).
-    pub fn curvature_at(&self, t: f64) -> f64 {
+    /// The signed acceleration across the direction of travel at t, (C′ × C″) / |C′| (positive
+    /// turning left; the curvature times the squared speed). For a rational curve
+    /// C = (H.x, H.y) / H.z, C′ × C″ = det(H, H′, H″) / H.z³; for a quadratic H that determinant is
+    /// constant (its derivative is det(H, H′, H‴) = 0), 4·det(H₀, H₁, H₂) at t = 0 [derived].
+    pub fn normal_acceleration_at(&self, t: f64) -> f64 {
         let det = self.h[0].dot(&self.h[1].cross(&self.h[2]));
         let w = self.eval_homogeneous(t).z;
-        let speed = self.deriv_at(t).hypot();
-        4.0 * det / (w * w * w * speed * speed * speed)
+        4.0 * det / (w * w * w * self.deriv_at(t).hypot())
     }
 
     /// A rigorous upper bound on |C'(t)| over t in [0, 1].
