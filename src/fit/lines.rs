@@ -211,6 +211,27 @@ mod tests {
     }
 
     #[test]
+    fn pieces_that_meet_only_up_to_a_gap_keep_a_bound() {
+        // The quadratic of REFERENCES §5 in two pieces, the second moved back along the line by
+        // a rounding-sized and by a visible gap: the closed form still applies, and its bound
+        // covers the certified measurement of the pieces as they are.
+        let q = Segment::Quad(QuadBez::new((0.0, 0.0), (5.0, 10.0), (10.0, 0.0)));
+        let line = Line::new((0.0, 2.5), (10.0, 2.5));
+        for gap in [1e-13, 0.05] {
+            let l = q.subsegment(0.0, 0.4);
+            let r = match q.subsegment(0.4, 1.0) {
+                Segment::Quad(r) => Segment::Quad(Affine::translate((-gap, 0.0)) * r),
+                _ => unreachable!("a quadratic's piece is a quadratic"),
+            };
+            let b = line_deviation(&[l, r], line).expect("a graph up to the gap");
+            let m = hausdorff(&[l, r], &[Segment::Line(line)], 1e-9);
+            assert!(b.bound >= m.sampled - 1e-9, "gap {gap}: {b:?} vs {m:?}");
+            // (The far end moved by the gap too: at most 2.5 + gap from the line's end.)
+            assert!(b.bound <= 2.5 + 2.0 * gap + 1e-9, "gap {gap}: {b:?}");
+        }
+    }
+
+    #[test]
     fn lines_off_the_curve_are_bounded_from_above() {
         // The same quadratic (peak 5 above its chord, REFERENCES §5) against lines raised by 2.5
         // and tilted (derived: the raised line is 2.5 from the ends and from the peak):
