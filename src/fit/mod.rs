@@ -30,6 +30,7 @@ mod circle;
 mod cubic;
 mod lines;
 mod merge;
+mod parametric;
 mod quadratic;
 mod spread;
 
@@ -295,20 +296,25 @@ fn run_position(parts: &[Part], frac: f64) -> At {
     At { segment: 0, t: 0.0 }
 }
 
-/// The exact deviation of a piece where a closed form exists (one line over a piece that is a
-/// graph over it, `lines.rs`).
-fn closed_form(source: &Segment, out: &[Segment]) -> Option<Deviation> {
+/// A certified deviation of a piece without a general measurement, where one exists: one line
+/// over a piece that is a graph over it (exact, `lines.rs`), one quadratic over a polynomial
+/// piece (the parametric distance, `parametric.rs`).
+fn closed_form(source: &Segment, out: &[Segment], tol: f64) -> Option<Deviation> {
     match out {
         [Segment::Line(l)] => lines::line_deviation(std::slice::from_ref(source), *l),
+        [Segment::Quad(q)] => parametric::quad_deviation(source, q, CERT_SLACK * tol),
         _ => None,
     }
 }
 
-/// Certify one piece against the exact source it replaces.
+/// Certify one piece against the exact source it replaces: by its closed form when that puts it
+/// within the tolerance, else by the general measurement.
 fn certify(source: &Segment, out: Vec<Segment>, tol: f64, from: At, to: At) -> Piece {
-    let deviation = closed_form(source, &out).unwrap_or_else(|| {
-        measure::hausdorff_within(std::slice::from_ref(source), &out, CERT_SLACK * tol, tol)
-    });
+    let deviation = closed_form(source, &out, tol)
+        .filter(|d| d.bound <= tol)
+        .unwrap_or_else(|| {
+            measure::hausdorff_within(std::slice::from_ref(source), &out, CERT_SLACK * tol, tol)
+        });
     Piece {
         out,
         from,
@@ -444,7 +450,7 @@ fn greedy(
     let error = |t0: f64, t1: f64| {
         let sub = s.subsegment(t0, t1);
         let approx = approximate(target, &sub);
-        let e = match closed_form(&sub, &approx) {
+        let e = match closed_form(&sub, &approx, tol) {
             Some(d) => d.bound,
             None => measure::estimate(&[sub], &approx, 16),
         };

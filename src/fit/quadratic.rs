@@ -6,10 +6,12 @@
 //!   P1 = 2·C(½) − (P0 + P2)/2 (for a cubic this is (3(P1 + P2) − P0 − P3)/4, the usual
 //!   mid-point approximation).
 //!
-//! The one with the smaller estimated error is used; `fit` certifies it.
+//! The one with the smaller estimated error is used (the parametric distance of `parametric.rs`
+//! for a polynomial piece, the Hausdorff distance otherwise); `fit` certifies it.
 
 use kurbo::QuadBez;
 
+use super::parametric;
 use crate::geom::Segment;
 use crate::measure;
 
@@ -28,7 +30,9 @@ pub fn approximate(s: &Segment) -> Vec<Segment> {
         .flatten()
         .map(|q| {
             let out = [Segment::Quad(q)];
-            (measure::estimate(std::slice::from_ref(s), &out, 8), out)
+            let error = parametric::estimate(s, &q)
+                .unwrap_or_else(|| measure::estimate(std::slice::from_ref(s), &out, 8));
+            (error, out)
         })
         .min_by(|a, b| a.0.total_cmp(&b.0))
         .map(|(_, out)| out.to_vec())

@@ -29,7 +29,8 @@ use crate::geom::Segment;
 
 /// A certified deviation: `bound` provably covers the true value, `sampled` is a distance
 /// actually attained (at `at`), and `bound − sampled` is at most the requested slack unless the
-/// evaluation budget ran out.
+/// evaluation budget ran out or the bound came from a closed form that may run above the
+/// Hausdorff distance (a quadratic's parametric distance, `fit::parametric`).
 #[derive(Clone, Copy, Debug, PartialEq, Serialize)]
 pub struct Deviation {
     pub bound: f64,

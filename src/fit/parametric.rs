@@ -1,0 +1,178 @@
+//! The parametric distance between a polynomial Bézier and the quadratic that replaces it.
+//!
+//! Run two curves A and B over the same parameter: each point A(t) has the point B(t) of the
+//! other curve within max_t |A(t) − B(t)|, and each B(t) has A(t), so that maximum bounds the
+//! Hausdorff distance from above (it bounds the Fréchet distance, which bounds the Hausdorff
+//! distance; Alt & Godau, "Computing the Fréchet distance between two polygonal curves", IJCGA
+//! 1995). With B raised to the degree of A (degree elevation, Farin, *Curves and Surfaces for
+//! CAGD*, 5th ed., §6.1), D = A − B is a Bézier whose control points hold every value D(t) in
+//! their convex hull (Farin §5.3), so max|Dᵢ| bounds |D| on [0, 1], and after de Casteljau
+//! subdivision on every subinterval. Intervals are refined best-first until the largest bound
+//! is within the slack of a value |D(t)| actually reached.
+//!
+//! The parametric distance is at least the Hausdorff distance, and near it where the two
+//! curves run at matching speeds, as a quadratic fitted through a cubic's ends and middle does.
+//! The distance from A(t) to the nearest point of B, at the t where |D| is largest, is reported
+//! as the value actually attained.
+
+use arrayvec::ArrayVec;
+use kurbo::{CubicBez, ParamCurve, QuadBez, Vec2};
+
+use crate::geom::Segment;
+use crate::measure::Deviation;
+
+/// Most intervals one bound may hold at once; when they are all taken it settles for the
+/// (still rigorous) bound it has.
+const MAX_INTERVALS: usize = 48;
+
+/// Relative allowance for floating-point evaluation of the control points.
+const ROUNDING: f64 = 1e-12;
+
+/// The difference A − B over [t0, t1] as the control points of a cubic, and the largest of
+/// their squared norms.
+#[derive(Clone, Copy)]
+struct Interval {
+    ub2: f64,
+    t1: f64,
+    d: [Vec2; 4],
+}
+
+impl Interval {
+    fn new(t1: f64, d: [Vec2; 4]) -> Interval {
+        let ub2 = d.iter().map(|v| v.hypot2()).fold(0.0, f64::max);
+        Interval { ub2, t1, d }
+    }
+
+    /// The two halves (de Casteljau at ½), the first ending at `tm`.
+    fn split(&self, tm: f64) -> [Interval; 2] {
+        let [a, b, c, d] = self.d;
+        let (ab, bc, cd) = ((a + b) * 0.5, (b + c) * 0.5, (c + d) * 0.5);
+        let (abc, bcd) = ((ab + bc) * 0.5, (bc + cd) * 0.5);
+        let mid = (abc + bcd) * 0.5;
+        [
+            Interval::new(tm, [a, ab, abc, mid]),
+            Interval::new(self.t1, [mid, bcd, cd, d]),
+        ]
+    }
+}
+
+/// The difference A − B of a quadratic or cubic source and a quadratic, as a cubic's control
+/// points, with A; `None` for other sources.
+fn difference(source: &Segment, q: &QuadBez) -> Option<(CubicBez, [Vec2; 4])> {
+    let a: CubicBez = match source {
+        Segment::Cubic(c) => *c,
+        Segment::Quad(s) => s.raise(),
+        _ => return None,
+    };
+    let b = q.raise();
+    Some((a, [a.p0 - b.p0, a.p1 - b.p1, a.p2 - b.p2, a.p3 - b.p3]))
+}
+
+/// The largest |A(t) − B(t)| over t = 0, 1/8, …, 1: an uncertified estimate of the parametric
+/// distance, to choose between candidates.
+pub fn estimate(source: &Segment, q: &QuadBez) -> Option<f64> {
+    let (_, d) = difference(source, q)?;
+    let diff = CubicBez::new(
+        d[0].to_point(),
+        d[1].to_point(),
+        d[2].to_point(),
+        d[3].to_point(),
+    );
+    Some(
+        (0..=8)
+            .map(|i| diff.eval(f64::from(i) / 8.0).to_vec2().hypot())
+            .fold(0.0, f64::max),
+    )
+}
+
+/// A certified bound on the Hausdorff distance between a quadratic or cubic `source` and the
+/// quadratic `q` with the same parameter range, within `slack` of the parametric distance;
+/// `None` for other sources.
+pub fn quad_deviation(source: &Segment, q: &QuadBez, slack: f64) -> Option<Deviation> {
+    let (a, d) = difference(source, q)?;
+    // The largest |D(t)|² reached so far (at the ends, then at every split point), and where.
+    let (mut best2, mut best_t) = if d[0].hypot2() >= d[3].hypot2() {
+        (d[0].hypot2(), 0.0)
+    } else {
+        (d[3].hypot2(), 1.0)
+    };
+    // Intervals in order along [0, 1], each starting where the previous one ends.
+    let mut intervals: ArrayVec<(f64, Interval), MAX_INTERVALS> = ArrayVec::new();
+    intervals.push((0.0, Interval::new(1.0, d)));
+    let bound = loop {
+        let k = (1..intervals.len()).fold(0, |k, i| {
+            if intervals[i].1.ub2 > intervals[k].1.ub2 {
+                i
+            } else {
+                k
+            }
+        });
+        let (t0, top) = intervals[k];
+        let ub = top.ub2.sqrt();
+        if ub <= best2.sqrt() + slack || intervals.is_full() {
+            break ub;
+        }
+        let tm = 0.5 * (t0 + top.t1);
+        let [left, right] = top.split(tm);
+        if left.d[3].hypot2() > best2 {
+            (best2, best_t) = (left.d[3].hypot2(), tm);
+        }
+        intervals[k] = (t0, left);
+        intervals.insert(k + 1, (tm, right));
+    };
+    let best = best2.sqrt();
+    let scale = [a.p0, a.p1, a.p2, a.p3, q.p1]
+        .iter()
+        .map(|p| p.to_vec2().hypot())
+        .fold(0.0, f64::max);
+    let at = a.eval(best_t);
+    let (sampled, _) = Segment::Quad(*q).nearest(at);
+    Some(Deviation {
+        bound: bound.max(best) + ROUNDING * scale,
+        sampled: sampled.min(bound.max(best)),
+        at: [at.x, at.y],
+    })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::measure::hausdorff;
+
+    #[test]
+    fn the_mid_point_quadratic_of_a_cubic() {
+        // The quadratic through a cubic's ends and middle, control point (3(P1 + P2) − P0 − P3)/4,
+        // is √3/36 · |P3 − 3P2 + 3P1 − P0| from it parametrically: D(t) = 3t(1 − t)(1 − 2t)·D1
+        // with D1 = (P3 − 3P2 + 3P1 − P0)/6, largest at t = (3 − √3)/6 [derived].
+        let c = CubicBez::new((0.0, 0.0), (1.0, 4.0), (5.0, 5.0), (8.0, 1.0));
+        let ctrl = ((3.0 * (c.p1.to_vec2() + c.p2.to_vec2()) - c.p0.to_vec2() - c.p3.to_vec2())
+            / 4.0)
+            .to_point();
+        let q = QuadBez::new(c.p0, ctrl, c.p3);
+        let third = c.p3.to_vec2() - 3.0 * c.p2.to_vec2() + 3.0 * c.p1.to_vec2() - c.p0.to_vec2();
+        let exact = 3f64.sqrt() / 36.0 * third.hypot();
+        let dev = quad_deviation(&Segment::Cubic(c), &q, 1e-9).unwrap();
+        assert!(
+            dev.bound >= exact && dev.bound <= exact + 1e-8,
+            "{dev:?} vs {exact}"
+        );
+        // It bounds the certified Hausdorff measurement, whose attained value it reports.
+        let m = hausdorff(&[Segment::Cubic(c)], &[Segment::Quad(q)], 1e-9);
+        assert!(dev.bound >= m.sampled, "{dev:?} vs {m:?}");
+        assert!(dev.sampled <= m.bound, "{dev:?} vs {m:?}");
+    }
+
+    #[test]
+    fn a_quadratic_against_itself_and_other_sources() {
+        let q = QuadBez::new((0.0, 0.0), (5.0, 10.0), (10.0, 0.0));
+        let same = quad_deviation(&Segment::Quad(q), &q, 1e-9).unwrap();
+        assert!(same.bound <= 1e-9, "{same:?}");
+        // Moving the control point by v moves Q(t) by 2t(1 − t)·v, at most |v|/2 (at t = ½).
+        let moved = QuadBez::new((0.0, 0.0), (5.0, 11.0), (10.0, 0.0));
+        let d = quad_deviation(&Segment::Quad(q), &moved, 1e-9).unwrap();
+        assert!((d.bound - 0.5).abs() < 1e-8, "{d:?}");
+        assert!((d.sampled - 0.5).abs() < 1e-8, "{d:?}");
+        let line = Segment::Line(kurbo::Line::new((0.0, 0.0), (10.0, 0.0)));
+        assert!(quad_deviation(&line, &q, 1e-9).is_none());
+    }
+}
