@@ -5,7 +5,9 @@
 //! The cubic keeps the run's end points and end tangents, P1 = P0 + α·T0 and P2 = P3 − β·T1, and
 //! α, β solve the linear least-squares problem on sample points of the source with chord-length
 //! parameters, refined by Newton reparametrisation (Schneider, "An algorithm for automatically
-//! fitting digitized curves", Graphics Gems, 1990). Only the certified measurement decides.
+//! fitting digitized curves", Graphics Gems, 1990). A fit whose samples already lie farther than
+//! the tolerance from it (after reparametrisation) is dropped at once; otherwise only the
+//! certified measurement decides.
 
 use kurbo::{CubicBez, ParamCurve, ParamCurveDeriv, Point, Vec2};
 
@@ -40,8 +42,10 @@ fn smooth_join(a: &Piece, b: &Piece) -> bool {
     lu > 0.0 && lv > 0.0 && u.dot(v) >= SMOOTH_COS * lu * lv && a.to.segment <= b.from.segment
 }
 
-/// The least-squares cubic with fixed end points and end tangents through the samples.
-fn fit_cubic(samples: &[Point], t0: Vec2, t1: Vec2) -> Option<CubicBez> {
+/// The least-squares cubic with fixed end points and end tangents through the samples, and the
+/// largest distance from a sample to the cubic at its reparametrised parameter (an estimate of
+/// the deviation from above at the samples: no certified value).
+fn fit_cubic(samples: &[Point], t0: Vec2, t1: Vec2) -> Option<(CubicBez, f64)> {
     let (p0, p3) = (samples[0], samples[samples.len() - 1]);
     let mut u: Vec<f64> = {
         let mut acc = vec![0.0];
@@ -71,12 +75,12 @@ fn fit_cubic(samples: &[Point], t0: Vec2, t1: Vec2) -> Option<CubicBez> {
         }
         let det = c11 * c22 - c12 * c12;
         if det.abs() <= 1e-12 * (c11 * c22).max(1e-300) {
-            return best;
+            break;
         }
         let alpha = (x1 * c22 - x2 * c12) / det;
         let beta = (c11 * x2 - c12 * x1) / det;
         if !(alpha > 0.0 && beta > 0.0 && alpha.is_finite() && beta.is_finite()) {
-            return best;
+            break;
         }
         let c = CubicBez::new(p0, p0 + alpha * t0, p3 - beta * t1, p3);
         best = Some(c);
@@ -91,7 +95,14 @@ fn fit_cubic(samples: &[Point], t0: Vec2, t1: Vec2) -> Option<CubicBez> {
             }
         }
     }
-    best
+    best.map(|c| {
+        let worst = samples
+            .iter()
+            .zip(&u)
+            .map(|(q, &t)| (c.eval(t) - *q).hypot())
+            .fold(0.0, f64::max);
+        (c, worst)
+    })
 }
 
 /// Try to replace pieces[i..=j] by one certified cubic.
@@ -104,7 +115,10 @@ fn merged(segs: &[Segment], pieces: &[Piece], tol: f64) -> Option<Piece> {
     for s in &source {
         samples.extend((1..=8).map(|k| s.eval(k as f64 / 8.0)));
     }
-    let cubic = fit_cubic(&samples, t0, t1)?;
+    let (cubic, at_samples) = fit_cubic(&samples, t0, t1)?;
+    if at_samples > tol {
+        return None;
+    }
     let out = vec![Segment::Cubic(cubic)];
     if measure::estimate(&source, &out, 12) > tol {
         return None;
