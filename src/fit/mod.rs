@@ -307,14 +307,18 @@ fn closed_form(source: &Segment, out: &[Segment], tol: f64) -> Option<Deviation>
     }
 }
 
-/// Certify one piece against the exact source it replaces: by its closed form when that puts it
-/// within the tolerance, else by the general measurement.
+/// The certified deviation of a piece from the exact source it replaces: its closed form
+/// (`closed`, from [`closed_form`]) when that puts it within the tolerance, else the general
+/// measurement.
+fn certified(source: &Segment, out: &[Segment], closed: Option<Deviation>, tol: f64) -> Deviation {
+    closed.filter(|d| d.bound <= tol).unwrap_or_else(|| {
+        measure::hausdorff_within(std::slice::from_ref(source), out, CERT_SLACK * tol, tol)
+    })
+}
+
+/// Certify one piece against the exact source it replaces.
 fn certify(source: &Segment, out: Vec<Segment>, tol: f64, from: At, to: At) -> Piece {
-    let deviation = closed_form(source, &out, tol)
-        .filter(|d| d.bound <= tol)
-        .unwrap_or_else(|| {
-            measure::hausdorff_within(std::slice::from_ref(source), &out, CERT_SLACK * tol, tol)
-        });
+    let deviation = certified(source, &out, closed_form(source, &out, tol), tol);
     Piece {
         out,
         from,
@@ -439,6 +443,8 @@ fn approximate(target: Target, s: &Segment) -> Vec<Segment> {
 }
 
 /// Split one segment greedily: each piece as long as the approximation stays within tolerance.
+/// A piece whose closed form already puts it within the tolerance is kept as the search left
+/// it; any other is certified by the general measurement and shortened until it fits.
 fn greedy(
     s: &Segment,
     index: usize,
@@ -447,40 +453,33 @@ fn greedy(
     out: &mut Pieces,
 ) -> Result<(), OverLimit> {
     let goal = SEARCH_GOAL * tol;
-    let error = |t0: f64, t1: f64| {
-        let sub = s.subsegment(t0, t1);
-        let approx = approximate(target, &sub);
-        let e = match closed_form(&sub, &approx, tol) {
-            Some(d) => d.bound,
-            None => measure::estimate(&[sub], &approx, 16),
-        };
-        (e, ())
-    };
+    let at = |t: f64| At { segment: index, t };
     let mut t0 = 0.0;
     let mut step: f64 = 1.0;
     while t0 < 1.0 {
-        let (mut t1, ()) = search_end(t0, 1.0, step, goal, |t1| error(t0, t1));
-        let piece = loop {
+        let (mut t1, (mut approx, mut closed)) = search_end(t0, 1.0, step, goal, |t1| {
             let sub = s.subsegment(t0, t1);
-            let p = certify(
-                &sub,
-                approximate(target, &sub),
-                tol,
-                At {
-                    segment: index,
-                    t: t0,
-                },
-                At {
-                    segment: index,
-                    t: t1,
-                },
-            );
+            let approx = approximate(target, &sub);
+            let closed = closed_form(&sub, &approx, tol);
+            let e = closed.map_or_else(|| measure::estimate(&[sub], &approx, 16), |d| d.bound);
+            (e, (approx, closed))
+        });
+        let piece = loop {
+            let deviation = certified(&s.subsegment(t0, t1), &approx, closed, tol);
             // Shorten until certified; a piece this short that still fails is kept and its
             // bound reported as it is (the contour is then flagged over tolerance).
-            if p.deviation.bound <= tol || t1 - t0 < 1e-9 {
-                break p;
+            if deviation.bound <= tol || t1 - t0 < 1e-9 {
+                break Piece {
+                    out: approx,
+                    from: at(t0),
+                    to: at(t1),
+                    deviation,
+                };
             }
             t1 = t0 + 0.8 * (t1 - t0);
+            let sub = s.subsegment(t0, t1);
+            approx = approximate(target, &sub);
+            closed = closed_form(&sub, &approx, tol);
         };
         step = t1 - t0;
         t0 = t1;

@@ -10,6 +10,14 @@
 //! subdivision on every subinterval. Intervals are refined best-first until the largest bound
 //! is within the slack of a value |D(t)| actually reached.
 //!
+//! Most pieces need no refinement: writing the Bernstein form as
+//! D(t) = (1 − t)³D₀ + t³D₃ + 3t(1 − t)·((1 − 2t)·D₁ + t·(D₁ + D₂)),
+//! |D| ≤ max(|D₀|, |D₃|) + (√3/6)·|D₁| + (4/9)·|D₁ + D₂| (the largest values of
+//! 3t(1 − t)|1 − 2t| and 3t²(1 − t) on [0, 1], at t = (3 ± √3)/6 and t = 2/3) [derived]. For the
+//! quadratic through a cubic's ends and middle D₀ = D₃ = 0 and D₂ = −D₁, so the bound is the
+//! value (√3/6)·|D₁| reached at t = (3 ± √3)/6: the known error √3/36·|P3 − 3P2 + 3P1 − P0| of
+//! that approximation. It is used whenever it is within the slack of what is reached there.
+//!
 //! The parametric distance is at least the Hausdorff distance, and near it where the two
 //! curves run at matching speeds, as a quadratic fitted through a cubic's ends and middle does.
 //! The distance from A(t) to the nearest point of B, at the t where |D| is largest, is reported
@@ -68,28 +76,51 @@ fn difference(source: &Segment, q: &QuadBez) -> Option<(CubicBez, [Vec2; 4])> {
     Some((a, [a.p0 - b.p0, a.p1 - b.p1, a.p2 - b.p2, a.p3 - b.p3]))
 }
 
-/// The largest |A(t) − B(t)| over t = 0, 1/8, …, 1: an uncertified estimate of the parametric
-/// distance, to choose between candidates.
-pub fn estimate(source: &Segment, q: &QuadBez) -> Option<f64> {
-    let (_, d) = difference(source, q)?;
+/// A certified bound on the Hausdorff distance between a quadratic or cubic `source` and the
+/// quadratic `q` with the same parameter range, within `slack` of the parametric distance;
+/// `None` for other sources.
+pub fn quad_deviation(source: &Segment, q: &QuadBez, slack: f64) -> Option<Deviation> {
+    let (a, d) = difference(source, q)?;
+    let (bound, best_t) = closed_bound(&d, slack).unwrap_or_else(|| refined_bound(d, slack));
+    let scale = [a.p0, a.p1, a.p2, a.p3, q.p1]
+        .iter()
+        .map(|p| p.to_vec2().hypot())
+        .fold(0.0, f64::max);
+    let at = a.eval(best_t);
+    let (sampled, _) = Segment::Quad(*q).nearest(at);
+    Some(Deviation {
+        bound: bound + ROUNDING * scale,
+        sampled: sampled.min(bound),
+        at: [at.x, at.y],
+    })
+}
+
+/// The closed-form bound of the module doc and the t where the larger of its two peaks is
+/// reached, when it is within `slack` of the value |D| reaches there.
+fn closed_bound(d: &[Vec2; 4], slack: f64) -> Option<(f64, f64)> {
+    let r3 = 3f64.sqrt();
+    let bound = d[0].hypot().max(d[3].hypot())
+        + r3 / 6.0 * d[1].hypot()
+        + 4.0 / 9.0 * (d[1] + d[2]).hypot();
     let diff = CubicBez::new(
         d[0].to_point(),
         d[1].to_point(),
         d[2].to_point(),
         d[3].to_point(),
     );
-    Some(
-        (0..=8)
-            .map(|i| diff.eval(f64::from(i) / 8.0).to_vec2().hypot())
-            .fold(0.0, f64::max),
-    )
+    let value = |t: f64| diff.eval(t).to_vec2().hypot();
+    let (lo, hi) = ((3.0 - r3) / 6.0, (3.0 + r3) / 6.0);
+    let (t, reached) = if value(lo) >= value(hi) {
+        (lo, value(lo))
+    } else {
+        (hi, value(hi))
+    };
+    (bound <= reached + slack).then_some((bound, t))
 }
 
-/// A certified bound on the Hausdorff distance between a quadratic or cubic `source` and the
-/// quadratic `q` with the same parameter range, within `slack` of the parametric distance;
-/// `None` for other sources.
-pub fn quad_deviation(source: &Segment, q: &QuadBez, slack: f64) -> Option<Deviation> {
-    let (a, d) = difference(source, q)?;
+/// The bound by best-first subdivision of the difference's control points, and the t of the
+/// largest value reached.
+fn refined_bound(d: [Vec2; 4], slack: f64) -> (f64, f64) {
     // The largest |D(t)|² reached so far (at the ends, then at every split point), and where.
     let (mut best2, mut best_t) = if d[0].hypot2() >= d[3].hypot2() {
         (d[0].hypot2(), 0.0)
@@ -120,18 +151,7 @@ pub fn quad_deviation(source: &Segment, q: &QuadBez, slack: f64) -> Option<Devia
         intervals[k] = (t0, left);
         intervals.insert(k + 1, (tm, right));
     };
-    let best = best2.sqrt();
-    let scale = [a.p0, a.p1, a.p2, a.p3, q.p1]
-        .iter()
-        .map(|p| p.to_vec2().hypot())
-        .fold(0.0, f64::max);
-    let at = a.eval(best_t);
-    let (sampled, _) = Segment::Quad(*q).nearest(at);
-    Some(Deviation {
-        bound: bound.max(best) + ROUNDING * scale,
-        sampled: sampled.min(bound.max(best)),
-        at: [at.x, at.y],
-    })
+    (bound.max(best2.sqrt()), best_t)
 }
 
 #[cfg(test)]
