@@ -11,17 +11,18 @@ use std::f64::consts::TAU;
 
 use kurbo::{Line, Point, Vec2};
 
+use super::Out;
 use crate::geom::{CircularArc, Segment};
 
 /// The equal-length biarc for a piece, or its chord where no biarc exists.
-pub fn biarc(s: &Segment) -> Vec<Segment> {
+pub fn biarc(s: &Segment) -> Out {
     let (p0, p1) = (s.start(), s.end());
-    let chord = vec![Segment::Line(Line::new(p0, p1))];
+    let chord = super::one(Segment::Line(Line::new(p0, p1)));
     let (Some(t0), Some(t1)) = (s.tangent_at(0.0), s.tangent_at(1.0)) else {
         return chord;
     };
     match junction(p0, t0, p1, t1) {
-        Some((j, tj)) => vec![arc_through(p0, t0, j), arc_through(j, tj, p1)],
+        Some((j, tj)) => Out::from([arc_through(p0, t0, j), arc_through(j, tj, p1)]),
         None => chord,
     }
 }

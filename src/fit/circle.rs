@@ -15,7 +15,7 @@ use std::f64::consts::{FRAC_PI_2, PI};
 
 use kurbo::{CubicBez, Line, ParamCurve, Point, QuadBez, Vec2};
 
-use super::Target;
+use super::{Out, Target};
 use crate::geom::{CircularArc, Segment};
 
 /// The largest sweep of one piece of `target` on a circle of radius r within tolerance e.
@@ -67,7 +67,7 @@ pub fn cubic_error(theta: f64) -> f64 {
 
 /// One piece of the target for a circular arc (chord, tangent-intersection quadratic, or the
 /// (4/3)tan(θ/4) cubic; the arc itself for the arcs target).
-pub fn approximate(target: Target, a: &CircularArc) -> Vec<Segment> {
+pub fn approximate(target: Target, a: &CircularArc) -> Out {
     let (p0, p1) = (a.eval(0.0), a.eval(1.0));
     let theta = a.sweep;
     let seg = match target {
@@ -87,7 +87,7 @@ pub fn approximate(target: Target, a: &CircularArc) -> Vec<Segment> {
         }
         Target::Arcs => Segment::Arc(*a),
     };
-    vec![seg]
+    super::one(seg)
 }
 
 /// The unit tangent at angle φ, turning from +x towards +y; with a signed tangent length the

@@ -7,9 +7,10 @@
 
 use kurbo::CubicBez;
 
+use super::Out;
 use crate::geom::Segment;
 
-pub fn approximate(s: &Segment) -> Vec<Segment> {
+pub fn approximate(s: &Segment) -> Out {
     let c = match s {
         Segment::Conic(k) => {
             let [p0, p1, p2] = k.points();
@@ -27,5 +28,5 @@ pub fn approximate(s: &Segment) -> Vec<Segment> {
             )
         }
     };
-    vec![Segment::Cubic(c)]
+    super::one(Segment::Cubic(c))
 }

@@ -119,7 +119,7 @@ fn merged(segs: &[Segment], pieces: &[Piece], tol: f64) -> Option<Piece> {
     if at_samples > tol {
         return None;
     }
-    let out = vec![Segment::Cubic(cubic)];
+    let out = super::one(Segment::Cubic(cubic));
     if measure::estimate(&source, &out, 12) > tol {
         return None;
     }

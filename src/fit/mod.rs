@@ -36,6 +36,7 @@ mod spread;
 
 use std::f64::consts::TAU;
 
+use arrayvec::ArrayVec;
 use kurbo::{ParamCurve, Point};
 use serde::Serialize;
 
@@ -70,10 +71,21 @@ pub struct At {
     pub t: f64,
 }
 
+/// The output of one piece: one segment, or two for a biarc (kept inline: a fit makes one
+/// piece per output segment or two, and a heap allocation each would cost more than the piece).
+pub type Out = ArrayVec<Segment, 2>;
+
+/// One segment as an [`Out`].
+fn one(s: Segment) -> Out {
+    let mut out = Out::new();
+    out.push(s);
+    out
+}
+
 /// One piece of output and the source interval it replaces, with its certified deviation.
 #[derive(Clone, Debug, PartialEq)]
 pub struct Piece {
-    pub out: Vec<Segment>,
+    pub out: Out,
     pub from: At,
     pub to: At,
     pub deviation: Deviation,
@@ -317,7 +329,7 @@ fn certified(source: &Segment, out: &[Segment], closed: Option<Deviation>, tol: 
 }
 
 /// Certify one piece against the exact source it replaces.
-fn certify(source: &Segment, out: Vec<Segment>, tol: f64, from: At, to: At) -> Piece {
+fn certify(source: &Segment, out: Out, tol: f64, from: At, to: At) -> Piece {
     let deviation = certified(source, &out, closed_form(source, &out, tol), tol);
     Piece {
         out,
@@ -331,7 +343,7 @@ fn certify(source: &Segment, out: Vec<Segment>, tol: f64, from: At, to: At) -> P
 fn exact(out: Segment, index: usize) -> Piece {
     Piece {
         deviation: Deviation::zero(out.start()),
-        out: vec![out],
+        out: one(out),
         from: At {
             segment: index,
             t: 0.0,
@@ -355,7 +367,7 @@ fn circular_run(
         let from = run_position(parts, 0.0);
         let to = run_position(parts, 1.0);
         return out.push(Piece {
-            out: vec![whole],
+            out: one(whole),
             from,
             to,
             deviation: Deviation::zero(whole.start()),
@@ -433,9 +445,9 @@ fn segment_run(
 }
 
 /// The target's approximation of one source piece.
-fn approximate(target: Target, s: &Segment) -> Vec<Segment> {
+fn approximate(target: Target, s: &Segment) -> Out {
     match target {
-        Target::Lines => vec![Segment::Line(kurbo::Line::new(s.start(), s.end()))],
+        Target::Lines => one(Segment::Line(kurbo::Line::new(s.start(), s.end()))),
         Target::Quadratic => quadratic::approximate(s),
         Target::Cubic => cubic::approximate(s),
         Target::Arcs => arcs::biarc(s),

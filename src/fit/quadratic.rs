@@ -16,11 +16,12 @@
 
 use kurbo::QuadBez;
 
+use super::Out;
 use crate::geom::Segment;
 use crate::measure;
 
 /// The quadratic for a piece (see the module doc).
-pub fn approximate(s: &Segment) -> Vec<Segment> {
+pub fn approximate(s: &Segment) -> Out {
     let (p0, p2) = (s.start(), s.end());
     let mid = s.eval(0.5);
     let through_mid = QuadBez::new(
@@ -29,19 +30,14 @@ pub fn approximate(s: &Segment) -> Vec<Segment> {
         p2,
     );
     if matches!(s, Segment::Quad(_) | Segment::Cubic(_)) {
-        return vec![Segment::Quad(through_mid)];
+        return super::one(Segment::Quad(through_mid));
     }
-    let candidates = [tangent_quad(s), Some(through_mid)];
-    candidates
-        .into_iter()
-        .flatten()
-        .map(|q| {
-            let out = [Segment::Quad(q)];
-            (measure::estimate(std::slice::from_ref(s), &out, 8), out)
-        })
-        .min_by(|a, b| a.0.total_cmp(&b.0))
-        .map(|(_, out)| out.to_vec())
-        .unwrap_or_default()
+    let error = |q: QuadBez| measure::estimate(std::slice::from_ref(s), &[Segment::Quad(q)], 8);
+    let best = match tangent_quad(s) {
+        Some(t) if error(t) < error(through_mid) => t,
+        _ => through_mid,
+    };
+    super::one(Segment::Quad(best))
 }
 
 /// The quadratic whose control point is the intersection of the end tangents, if they meet

@@ -290,7 +290,7 @@ fn fit_span(segs: &[Segment], span: &Span, tol: f64, out: &mut Pieces) -> Result
             }
         };
         out.push(Piece {
-            out: vec![Segment::Line(line)],
+            out: super::one(Segment::Line(line)),
             from: span.at(a),
             to: span.at(b),
             deviation,
@@ -351,7 +351,7 @@ pub(super) fn circle(
         // The last line ends exactly where the first starts.
         let (p, q) = (vertex(k), vertex((k + 1) % n));
         out.push(Piece {
-            out: vec![Segment::Line(Line::new(p, q))],
+            out: super::one(Segment::Line(Line::new(p, q))),
             from: at(k as f64 / n as f64),
             to: at((k + 1) as f64 / n as f64),
             deviation: Deviation {
