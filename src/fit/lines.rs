@@ -124,8 +124,12 @@ pub fn line_deviation_and_spread(sources: &[Segment], line: Line) -> Option<(Dev
                 x_prev = p.x;
             }
             prev_end = points.last().copied();
-            for t in [0.0, 1.0].into_iter().chain(y_turns(s)) {
-                let p = s.eval(t);
+            // (The first and last control points are the ends.)
+            let ends = [points.first(), points.last()]
+                .into_iter()
+                .flatten()
+                .copied();
+            for p in ends.chain(y_turns(s).into_iter().map(|t| s.eval(t))) {
                 (y_min, y_max) = (y_min.min(p.y), y_max.max(p.y));
                 if p.y.abs() > h {
                     (h, at) = (p.y.abs(), p);

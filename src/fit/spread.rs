@@ -134,7 +134,8 @@ fn spans(segs: &[Segment]) -> Vec<Span> {
 impl Span {
     /// Source segment and parameter at span position σ ∈ [0, parts] (part k covers [k, k+1]).
     fn at(&self, sigma: f64) -> At {
-        let k = (sigma.floor() as usize).min(self.parts.len() - 1);
+        // (σ ≥ 0, so the cast is its floor.)
+        let k = (sigma as usize).min(self.parts.len() - 1);
         let p = self.parts[k];
         let f = (sigma - k as f64).clamp(0.0, 1.0);
         At {
@@ -145,10 +146,7 @@ impl Span {
 
     /// The exact source between span positions a < b, into `out` (cleared first).
     fn source_into(&self, segs: &[Segment], a: f64, b: f64, out: &mut Vec<Segment>) {
-        let (ka, kb) = (
-            a.floor() as usize,
-            (b.ceil() as usize).min(self.parts.len()),
-        );
+        let (ka, kb) = (a as usize, (b.ceil() as usize).min(self.parts.len()));
         out.clear();
         out.extend((ka..kb.max(ka + 1)).filter_map(|k| {
             let p = self.parts[k.min(self.parts.len() - 1)];
@@ -162,14 +160,16 @@ impl Span {
     /// A first guess at the length, in span positions, of a line from σ = `a` over which the
     /// curve bulges by `bulge`: over a parameter step h the curve bulges by about n·h²/8, n its
     /// acceleration across its direction (exact for a parabola, n taken at the step's middle),
-    /// taken here half a step ahead.
-    fn guess(&self, segs: &[Segment], a: f64, bulge: f64) -> f64 {
-        let k = (a.floor() as usize).min(self.parts.len() - 1);
+    /// taken here half a step ahead: half the `previous` line's length ahead, or half the step
+    /// predicted at `a` for the first line.
+    fn guess(&self, segs: &[Segment], a: f64, bulge: f64, previous: Option<f64>) -> f64 {
+        let k = (a as usize).min(self.parts.len() - 1);
         let p = self.parts[k];
         let s = &segs[p.index];
         let step_at = |t: f64| (8.0 * bulge / s.normal_acceleration_at(t).abs()).sqrt();
         let t = self.at(a).t;
-        let h = step_at((t + 0.5 * step_at(t)).min(p.t1)) / (p.t1 - p.t0);
+        let ahead = previous.map_or_else(|| step_at(t), |h| h * (p.t1 - p.t0));
+        let h = step_at((t + 0.5 * ahead).min(p.t1)) / (p.t1 - p.t0);
         if h.is_finite() && h > 0.0 {
             h
         } else {
@@ -247,19 +247,20 @@ fn fit_span(segs: &[Segment], span: &Span, tol: f64, out: &mut Pieces) -> Result
         (line, super::lines::line_deviation_and_spread(&source, line))
     };
     let mut a = 0.0;
+    let mut previous = None;
     let mut va = span.vertex(segs, &anchors, 0.0, 0.0);
     while a < end {
         // A line never ends a hair before a part's end: the sliver left over would be a
         // piece too short to evaluate reliably.
         let snap = |b: f64| {
-            let k = b.round();
+            let k = (b + 0.5) as usize as f64;
             if (b - k).abs() < SAME_T && k > a {
                 k.min(end)
             } else {
                 b.min(end)
             }
         };
-        let guess = span.guess(segs, a, aimed_bulge(a == 0.0, goal, offset));
+        let guess = span.guess(segs, a, aimed_bulge(a == 0.0, goal, offset), previous);
         let (b, (mut line, mut found)) = search_end(a, end, guess, spread_goal, |b| {
             let (line, found) = line_to(a, va, snap(b));
             let e = match found {
@@ -295,6 +296,7 @@ fn fit_span(segs: &[Segment], span: &Span, tol: f64, out: &mut Pieces) -> Result
             to: span.at(b),
             deviation,
         })?;
+        previous = Some(b - a);
         a = b;
         va = line.p1;
     }
