@@ -137,9 +137,9 @@ fn dense_sampling_never_exceeds_the_certified_bound() {
                     "{} {target:?} {t}",
                     c.source.element
                 );
-                for p in &f.pieces {
+                for (p, out) in f.piece_segments() {
                     let src = c.segments[p.from.segment].subsegment(p.from.t, p.to.t);
-                    let dense = dense_hausdorff(&[src], &p.out, 10_000);
+                    let dense = dense_hausdorff(&[src], out, 10_000);
                     assert!(
                         dense <= p.deviation.bound + 1e-7,
                         "{} {target:?} {t}: dense {dense} > certified {}",
@@ -169,9 +169,9 @@ fn tolerance_sweep_from_1mm_to_1e5mm() {
                     f.deviation.bound
                 );
                 let samples = if t < 1e-3 { 200 } else { 1000 };
-                for p in f.pieces.iter().step_by(1 + f.pieces.len() / 40) {
+                for (p, out) in f.piece_segments().step_by(1 + f.pieces.len() / 40) {
                     let src = c.segments[p.from.segment].subsegment(p.from.t, p.to.t);
-                    let dense = dense_hausdorff(&[src], &p.out, samples);
+                    let dense = dense_hausdorff(&[src], out, samples);
                     // 1e-7 mm covers the reference solvers' own accuracy (kurbo's nearest point).
                     assert!(
                         dense <= p.deviation.bound + 1e-7,

@@ -189,6 +189,37 @@ fn quadratics_within_tolerance() {
     assert_within_tolerance(cantarell(), Target::Quadratic);
 }
 
+/// The bench's random-arcs job on its first 1,000 arcs: lines at most 0.8 × kurbo's
+/// (`Arc::from_svg_arc` + flatten) count, every arc within tolerance, certified and by the
+/// dense check.
+#[test]
+fn random_arcs_lines_at_most_four_fifths_of_kurbo() {
+    let (mut ours, mut theirs) = (0, 0);
+    for (i, a) in jobs::random_svg_arcs(1000, jobs::ARC_SEED)
+        .iter()
+        .enumerate()
+    {
+        let (Some(c), Some(k)) = (jobs::ratline_arc(a, i), jobs::kurbo_arc(a)) else {
+            continue;
+        };
+        let f = fit(&c, Target::Lines, tol());
+        assert!(f.deviation.bound <= TOL, "arc {i}: {:?}", f.deviation);
+        let src = Set::from_segments(&c.segments);
+        let d = dense::dense(
+            &src.samples(),
+            &src,
+            &Set::from_segments(&f.contour.segments),
+        );
+        assert!(d <= TOL, "arc {i}: dense check {d} mm > {TOL} mm");
+        ours += f.contour.segments.len();
+        theirs += jobs::segments_of(&jobs::kurbo_arc_lines(&k, TOL)).len();
+    }
+    assert!(
+        ours as f64 <= 0.8 * theirs as f64,
+        "ratline {ours} lines, kurbo {theirs}"
+    );
+}
+
 const RADII: [f64; 5] = [0.5, 1.0, 10.0, 100.0, 400.0];
 const CIRCLE_TOLS: [f64; 2] = [0.01, 0.001];
 

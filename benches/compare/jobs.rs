@@ -238,6 +238,9 @@ pub fn circle_minimum(target: CircleTarget, r: f64, t: f64) -> usize {
     ((2.0 * PI / max_sweep) - 1e-12).ceil().max(1.0) as usize
 }
 
+/// The seed of the random-arcs job.
+pub const ARC_SEED: u64 = 0x5EED_A2C5;
+
 /// `n` random SVG arcs: radii uniform in 1–200 mm, rotation uniform in 0–360°, random flags,
 /// the start point in a 200 mm square and the end point at a distance up to twice the smaller
 /// radius in a random direction (so most arcs keep their radii; some are scaled up by the

@@ -406,7 +406,7 @@ fn circle_rows(reps: usize, rows: &mut Vec<Row>) {
 fn arc_row(n: usize, dense_n: usize, reps: usize) -> Row {
     let tol = 0.01;
     let t = tolerance(tol);
-    let params = jobs::random_svg_arcs(n, 0x5EED_A2C5);
+    let params = jobs::random_svg_arcs(n, jobs::ARC_SEED);
     eprintln!("{n} random arcs ...");
     let r = timed(
         reps,

@@ -11,7 +11,7 @@
 
 use kurbo::{CubicBez, ParamCurve, ParamCurveDeriv, Point, Vec2};
 
-use super::{Piece, CERT_SLACK};
+use super::{Draft, CERT_SLACK};
 use crate::geom::Segment;
 use crate::measure;
 
@@ -22,7 +22,7 @@ const SMOOTH_COS: f64 = 0.9994; // cos 2°
 const MAX_RUN: usize = 12;
 
 /// The exact source a range of pieces covers.
-fn source_of(segs: &[Segment], pieces: &[Piece]) -> Vec<Segment> {
+fn source_of(segs: &[Segment], pieces: &[Draft]) -> Vec<Segment> {
     let (from, to) = (pieces[0].from, pieces[pieces.len() - 1].to);
     (from.segment..=to.segment)
         .filter_map(|i| {
@@ -33,7 +33,7 @@ fn source_of(segs: &[Segment], pieces: &[Piece]) -> Vec<Segment> {
         .collect()
 }
 
-fn smooth_join(a: &Piece, b: &Piece) -> bool {
+fn smooth_join(a: &Draft, b: &Draft) -> bool {
     let (Some(Segment::Cubic(x)), Some(Segment::Cubic(y))) = (a.out.last(), b.out.first()) else {
         return false;
     };
@@ -106,7 +106,7 @@ fn fit_cubic(samples: &[Point], t0: Vec2, t1: Vec2) -> Option<(CubicBez, f64)> {
 }
 
 /// Try to replace pieces[i..=j] by one certified cubic.
-fn merged(segs: &[Segment], pieces: &[Piece], tol: f64) -> Option<Piece> {
+fn merged(segs: &[Segment], pieces: &[Draft], tol: f64) -> Option<Draft> {
     let source = source_of(segs, pieces);
     let first = source.first()?;
     let last = source.last()?;
@@ -124,7 +124,7 @@ fn merged(segs: &[Segment], pieces: &[Piece], tol: f64) -> Option<Piece> {
         return None;
     }
     let deviation = measure::hausdorff_within(&source, &out, CERT_SLACK * tol, tol);
-    (deviation.bound <= tol).then(|| Piece {
+    (deviation.bound <= tol).then(|| Draft {
         out,
         from: pieces[0].from,
         to: pieces[pieces.len() - 1].to,
@@ -133,11 +133,11 @@ fn merged(segs: &[Segment], pieces: &[Piece], tol: f64) -> Option<Piece> {
 }
 
 /// Merge smooth runs of cubic pieces (see the module doc).
-pub fn merge_smooth(segs: &[Segment], pieces: Vec<Piece>, tol: f64) -> Vec<Piece> {
+pub fn merge_smooth(segs: &[Segment], pieces: Vec<Draft>, tol: f64) -> Vec<Draft> {
     let mut out = Vec::with_capacity(pieces.len());
     let mut i = 0;
     while i < pieces.len() {
-        let mut best: Option<(usize, Piece)> = None;
+        let mut best: Option<(usize, Draft)> = None;
         let mut j = i;
         while j + 1 < pieces.len() && j + 1 - i < MAX_RUN && smooth_join(&pieces[j], &pieces[j + 1])
         {

@@ -71,9 +71,10 @@ pub struct At {
     pub t: f64,
 }
 
-/// The output of one piece: one segment, or two for a biarc (kept inline: a fit makes one
-/// piece per output segment or two, and a heap allocation each would cost more than the piece).
-pub type Out = ArrayVec<Segment, 2>;
+/// The output of one piece while fitting: one segment, or two for a biarc (kept inline: a fit
+/// makes one piece per output segment or two, and a heap allocation each would cost more than
+/// the piece).
+type Out = ArrayVec<Segment, 2>;
 
 /// One segment as an [`Out`].
 fn one(s: Segment) -> Out {
@@ -82,10 +83,22 @@ fn one(s: Segment) -> Out {
     out
 }
 
-/// One piece of output and the source interval it replaces, with its certified deviation.
+/// One piece while fitting: its output and the source interval it replaces, with its certified
+/// deviation.
 #[derive(Clone, Debug, PartialEq)]
+struct Draft {
+    out: Out,
+    from: At,
+    to: At,
+    deviation: Deviation,
+}
+
+/// One piece of a fitted contour: how many of its output segments the piece holds (pieces
+/// follow each other along the contour), the source interval they replace, and their
+/// certified deviation from it.
+#[derive(Clone, Copy, Debug, PartialEq)]
 pub struct Piece {
-    pub out: Out,
+    pub segments: usize,
     pub from: At,
     pub to: At,
     pub deviation: Deviation,
@@ -97,6 +110,19 @@ pub struct Fitted {
     pub contour: Contour,
     pub pieces: Vec<Piece>,
     pub deviation: Deviation,
+}
+
+impl Fitted {
+    /// Every piece with its output segments.
+    pub fn piece_segments(&self) -> impl Iterator<Item = (&Piece, &[Segment])> {
+        let mut start = 0;
+        self.pieces.iter().map(move |p| {
+            let end = start + p.segments;
+            let out = self.contour.segments.get(start..end).unwrap_or_default();
+            start = end;
+            (p, out)
+        })
+    }
 }
 
 /// Slack of the certification relative to the tolerance: a certified bound is at most this much
@@ -122,7 +148,7 @@ impl std::error::Error for OverLimit {}
 
 /// The pieces of a fit so far, and the limit on their segments.
 struct Pieces {
-    pieces: Vec<Piece>,
+    pieces: Vec<Draft>,
     segments: usize,
     limit: usize,
 }
@@ -137,7 +163,7 @@ impl Pieces {
         }
     }
 
-    fn push(&mut self, p: Piece) -> Result<(), OverLimit> {
+    fn push(&mut self, p: Draft) -> Result<(), OverLimit> {
         self.room(p.out.len())?;
         self.segments += p.out.len();
         self.pieces.push(p);
@@ -185,16 +211,25 @@ pub fn fit_limited(
             }
         }
     }
-    let mut pieces = out.pieces;
+    let mut drafts = out.pieces;
     if target == Target::Cubic {
-        pieces = merge::merge_smooth(&contour.segments, pieces, SEARCH_GOAL * tol);
+        drafts = merge::merge_smooth(&contour.segments, drafts, SEARCH_GOAL * tol);
     }
     let start = contour.start().unwrap_or(Point::ORIGIN);
-    let deviation = pieces
+    let deviation = drafts
         .iter()
         .map(|p| p.deviation)
         .fold(Deviation::zero(start), Deviation::max);
-    let segments = pieces.iter().flat_map(|p| p.out.iter().copied()).collect();
+    let segments = drafts.iter().flat_map(|p| p.out.iter().copied()).collect();
+    let pieces = drafts
+        .iter()
+        .map(|d| Piece {
+            segments: d.out.len(),
+            from: d.from,
+            to: d.to,
+            deviation: d.deviation,
+        })
+        .collect();
     Ok(Fitted {
         contour: Contour::new(segments, contour.closed, contour.source.clone()),
         pieces,
@@ -329,9 +364,9 @@ fn certified(source: &Segment, out: &[Segment], closed: Option<Deviation>, tol: 
 }
 
 /// Certify one piece against the exact source it replaces.
-fn certify(source: &Segment, out: Out, tol: f64, from: At, to: At) -> Piece {
+fn certify(source: &Segment, out: Out, tol: f64, from: At, to: At) -> Draft {
     let deviation = certified(source, &out, closed_form(source, &out, tol), tol);
-    Piece {
+    Draft {
         out,
         from,
         to,
@@ -340,8 +375,8 @@ fn certify(source: &Segment, out: Out, tol: f64, from: At, to: At) -> Piece {
 }
 
 /// An exact piece (identity or degree elevation): no approximation, nothing to measure.
-fn exact(out: Segment, index: usize) -> Piece {
-    Piece {
+fn exact(out: Segment, index: usize) -> Draft {
+    Draft {
         deviation: Deviation::zero(out.start()),
         out: one(out),
         from: At {
@@ -366,7 +401,7 @@ fn circular_run(
         let whole = Segment::Arc(*arc);
         let from = run_position(parts, 0.0);
         let to = run_position(parts, 1.0);
-        return out.push(Piece {
+        return out.push(Draft {
             out: one(whole),
             from,
             to,
@@ -381,7 +416,7 @@ fn circular_run(
     // The closed form gives the fewest pieces; certification has the last word. A few more
     // pieces are tried only if a certified bound comes out above the tolerance.
     for n in fewest..fewest + 4 {
-        let pieces: Vec<Piece> = (0..n)
+        let pieces: Vec<Draft> = (0..n)
             .map(|i| {
                 let (f0, f1) = (i as f64 / n as f64, (i + 1) as f64 / n as f64);
                 let sub = arc.subsegment(f0..f1);
@@ -481,7 +516,7 @@ fn greedy(
             // Shorten until certified; a piece this short that still fails is kept and its
             // bound reported as it is (the contour is then flagged over tolerance).
             if deviation.bound <= tol || t1 - t0 < 1e-9 {
-                break Piece {
+                break Draft {
                     out: approx,
                     from: at(t0),
                     to: at(t1),

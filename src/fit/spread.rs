@@ -30,7 +30,7 @@ use std::f64::consts::PI;
 
 use kurbo::{Line, Point, Vec2};
 
-use super::{search_end, At, OverLimit, Piece, Pieces, CERT_SLACK, SEARCH_GOAL, SEARCH_WINDOW};
+use super::{search_end, At, Draft, OverLimit, Pieces, CERT_SLACK, SEARCH_GOAL, SEARCH_WINDOW};
 use crate::geom::{CircularArc, Segment};
 use crate::measure::{self, Deviation};
 
@@ -290,7 +290,7 @@ fn fit_span(segs: &[Segment], span: &Span, tol: f64, out: &mut Pieces) -> Result
                 }
             }
         };
-        out.push(Piece {
+        out.push(Draft {
             out: super::one(Segment::Line(line)),
             from: span.at(a),
             to: span.at(b),
@@ -352,7 +352,7 @@ pub(super) fn circle(
     for k in 0..n {
         // The last line ends exactly where the first starts.
         let (p, q) = (vertex(k), vertex((k + 1) % n));
-        out.push(Piece {
+        out.push(Draft {
             out: super::one(Segment::Line(Line::new(p, q))),
             from: at(k as f64 / n as f64),
             to: at((k + 1) as f64 / n as f64),
