@@ -204,10 +204,10 @@ fn random_arcs_lines_at_most_four_fifths_of_kurbo() {
         };
         let f = fit(&c, Target::Lines, tol());
         assert!(f.deviation.bound <= TOL, "arc {i}: {:?}", f.deviation);
-        let src = Set::from_segments(&c.segments);
+        let (samples, reference) = dense::arc_reference(&k);
         let d = dense::dense(
-            &src.samples(),
-            &src,
+            &samples,
+            &reference,
             &Set::from_segments(&f.contour.segments),
         );
         assert!(d <= TOL, "arc {i}: dense check {d} mm > {TOL} mm");

@@ -136,3 +136,18 @@ pub fn dense(source_samples: &[Point], source: &Set, out: &Set) -> f64 {
         .farthest(&out.samples())
         .max(out.farthest(source_samples))
 }
+
+/// The reference side for an SVG arc, which no ratline type holds outside its own reading:
+/// kurbo's own arc, sampled exactly, and for nearest points its cubics at 1e-7 mm (far below
+/// any tolerance checked).
+pub fn arc_reference(arc: &kurbo::Arc) -> (Vec<Point>, Set) {
+    let pieces = (arc.sweep_angle.abs() / std::f64::consts::FRAC_PI_2).ceil() as usize;
+    let m = pieces.max(1) * SAMPLES;
+    let samples = (0..=m).map(|j| arc.eval(j as f64 / m as f64)).collect();
+    let set = Set::new(
+        kurbo::segments(kurbo::Shape::path_elements(arc, 1e-7))
+            .map(Piece::Seg)
+            .collect(),
+    );
+    (samples, set)
+}

@@ -447,19 +447,7 @@ fn arc_row(n: usize, dense_n: usize, reps: usize) -> Row {
             let ks = jobs::segments_of(kp);
             let kc = measure::hausdorff_within(&source.segments, &ks, 1e-3 * tol, tol).bound;
             let (dr, dk) = if i % step == 0 {
-                // The reference is kurbo's own arc: exact samples, and for nearest points its
-                // cubics at 1e-7 mm (far below the tolerance).
-                let arc = jobs::kurbo_arc(a)?;
-                let pieces = (arc.sweep_angle.abs() / std::f64::consts::FRAC_PI_2).ceil() as usize;
-                let m = pieces.max(1) * dense::SAMPLES;
-                let samples: Vec<_> = (0..=m)
-                    .map(|j| kurbo::ParamCurve::eval(&arc, j as f64 / m as f64))
-                    .collect();
-                let set = Set::new(
-                    kurbo::segments(arc.path_elements(1e-7))
-                        .map(Piece::Seg)
-                        .collect(),
-                );
+                let (samples, set) = dense::arc_reference(&jobs::kurbo_arc(a)?);
                 (
                     dense::dense(&samples, &set, &Set::from_segments(&fr.contour.segments)),
                     dense::dense(&samples, &set, &Set::from_segments(&ks)),
