@@ -25,7 +25,7 @@ use std::hint::black_box;
 use std::time::{Duration, Instant};
 
 use clap::{Parser, ValueEnum};
-use kurbo::{BezPath, Shape};
+use kurbo::BezPath;
 use rayon::prelude::*;
 
 use ratline::convert::{fit_outline, FittedOutline};
