@@ -17,9 +17,14 @@
 //! For the cubic target, consecutive cubic pieces that meet smoothly are then merged into one
 //! cubic wherever it is certified within the tolerance (`merge.rs`).
 //!
-//! Every approximated piece is measured with [`crate::measure::hausdorff`] against the exact
-//! source interval it replaces; a piece whose certified bound exceeds the tolerance is made
-//! shorter. The reported deviation is therefore a certified bound, never an estimate.
+//! Every approximated piece is certified against the exact source interval it replaces: by a
+//! closed form where one exists (one line over a curve that is a graph over it, `lines.rs`; a
+//! quadratic over a polynomial piece by their parametric distance, `parametric.rs`), else
+//! measured with [`crate::measure::hausdorff`]; a piece whose certified bound exceeds the
+//! tolerance is made shorter. The reported deviation is therefore a certified bound, never an
+//! estimate. The greedy searches (`search_end`) aim each piece within a few percent below the
+//! tolerance, starting from a guess (the local curvature for lines, the previous piece
+//! otherwise), so most pieces cost one or two evaluations.
 //!
 //! [`fit_limited`] stops as soon as the output passes a segment limit (a tolerance far below a
 //! machine's resolution on a large drawing multiplies the output without bound), before the
