@@ -27,8 +27,10 @@
 //! within e is n = ⌈π / arccos((r − e) / (r + e))⌉ (standard geometry).
 
 use std::f64::consts::PI;
+use std::ops::Range;
 
-use kurbo::{Line, Point, Vec2};
+use arrayvec::ArrayVec;
+use kurbo::{Line, Point, Vec2, MAX_EXTREMA};
 
 use super::{search_end, At, Draft, OverLimit, Pieces, CERT_SLACK, SEARCH_GOAL, SEARCH_WINDOW};
 use crate::geom::{CircularArc, Segment};
@@ -54,8 +56,8 @@ type Anchor = (Point, Option<Vec2>);
 
 /// A run of parts between two anchors, turning one way (`turn` = +1 left, −1 right, 0 straight).
 #[derive(Debug)]
-struct Span {
-    parts: Vec<Part>,
+struct Span<'a> {
+    parts: &'a [Part],
     turn: f64,
 }
 
@@ -65,15 +67,23 @@ struct Span {
 /// extremum at an end point land a few ulps inside).
 const SAME_T: f64 = 1e-9;
 
-fn anchors_inside(s: &Segment) -> Vec<f64> {
-    let mut ts: Vec<f64> = s.extrema().to_vec();
+/// The most anchors inside one segment: its x and y extrema and a cubic's two inflections.
+const MAX_ANCHORS: usize = MAX_EXTREMA + 2;
+
+fn anchors_inside(s: &Segment) -> ArrayVec<f64, MAX_ANCHORS> {
+    let mut ts: ArrayVec<f64, MAX_ANCHORS> = s.extrema().into_iter().collect();
     if let Segment::Cubic(c) = s {
         ts.extend(c.inflections());
     }
     ts.retain(|t| *t > SAME_T && *t < 1.0 - SAME_T);
     ts.sort_by(f64::total_cmp);
-    ts.dedup_by(|a, b| (*a - *b).abs() < SAME_T);
-    ts
+    let mut out = ArrayVec::new();
+    for t in ts {
+        if out.last().is_none_or(|&last: &f64| t - last >= SAME_T) {
+            out.push(t);
+        }
+    }
+    out
 }
 
 /// Which way a piece of curve turns, from three of its points (the piece has no inflection).
@@ -99,15 +109,18 @@ fn smooth_join(a: &Segment, b: &Segment) -> bool {
 
 /// The spans of a contour's curves; straight lines and zero-length segments are left out (lines
 /// are kept as they are by the caller).
-fn spans(segs: &[Segment]) -> Vec<Span> {
-    let mut out: Vec<Span> = Vec::new();
+/// Returned as every span's parts in order, and each span's range of them and turn.
+fn spans(segs: &[Segment]) -> (Vec<Part>, Vec<(Range<usize>, f64)>) {
+    let mut parts = Vec::with_capacity(2 * segs.len());
+    let mut out: Vec<(Range<usize>, f64)> = Vec::new();
     let mut open = false;
     for (i, s) in segs.iter().enumerate() {
         if matches!(s, Segment::Line(_)) || s.speed_bound() == 0.0 {
             open = false;
             continue;
         }
-        let mut cuts = vec![0.0];
+        let mut cuts: ArrayVec<f64, { MAX_ANCHORS + 2 }> = ArrayVec::new();
+        cuts.push(0.0);
         cuts.extend(anchors_inside(s));
         cuts.push(1.0);
         for (k, w) in cuts.windows(2).enumerate() {
@@ -118,20 +131,18 @@ fn spans(segs: &[Segment]) -> Vec<Span> {
             };
             let turn = turn_of(s, w[0], w[1]);
             let joins = k == 0 && open && i > 0 && smooth_join(&segs[i - 1], s);
+            parts.push(part);
             match out.last_mut() {
-                Some(span) if joins && span.turn == turn => span.parts.push(part),
-                _ => out.push(Span {
-                    parts: vec![part],
-                    turn,
-                }),
+                Some(span) if joins && span.1 == turn => span.0.end += 1,
+                _ => out.push((parts.len() - 1..parts.len(), turn)),
             }
         }
         open = true;
     }
-    out
+    (parts, out)
 }
 
-impl Span {
+impl Span<'_> {
     /// Source segment and parameter at span position σ ∈ [0, parts] (part k covers [k, k+1]).
     fn at(&self, sigma: f64) -> At {
         // (σ ≥ 0, so the cast is its floor.)
@@ -229,7 +240,14 @@ fn aimed_bulge(from_curve: bool, g: f64, d: f64) -> f64 {
 /// curve and tilts towards the offset vertex). The search starts from the
 /// length the local curvature predicts ([`Span::guess`]) and settles within its window, so most
 /// lines cost one or two evaluations of the closed form.
-fn fit_span(segs: &[Segment], span: &Span, tol: f64, out: &mut Pieces) -> Result<(), OverLimit> {
+/// `source` is scratch space for the source under each line.
+fn fit_span(
+    segs: &[Segment],
+    span: &Span,
+    tol: f64,
+    source: &mut Vec<Segment>,
+    out: &mut Pieces,
+) -> Result<(), OverLimit> {
     let goal = SEARCH_GOAL * tol;
     let end = span.parts.len() as f64;
     let offset = if span.turn == 0.0 {
@@ -239,12 +257,11 @@ fn fit_span(segs: &[Segment], span: &Span, tol: f64, out: &mut Pieces) -> Result
     };
     let spread_goal = goal + offset;
     let anchors = [span.point_normal(segs, 0.0), span.point_normal(segs, end)];
-    let mut source = Vec::new();
     let mut line_to = |a: f64, va: Point, b: f64| {
         let d = if b >= end { 0.0 } else { offset };
         let line = Line::new(va, span.vertex(segs, &anchors, b, d));
-        span.source_into(segs, a, b, &mut source);
-        (line, super::lines::line_deviation_and_spread(&source, line))
+        span.source_into(segs, a, b, source);
+        (line, super::lines::line_deviation_and_spread(source, line))
     };
     let mut a = 0.0;
     let mut previous = None;
@@ -305,8 +322,15 @@ fn fit_span(segs: &[Segment], span: &Span, tol: f64, out: &mut Pieces) -> Result
 
 /// Fit a contour with lines, the error spread to both sides of its curves.
 pub(super) fn lines(segs: &[Segment], tol: f64, out: &mut Pieces) -> Result<(), OverLimit> {
-    let spans = spans(segs);
-    let mut next = spans.iter().peekable();
+    let (parts, ranges) = spans(segs);
+    let mut source = Vec::new();
+    let mut next = ranges
+        .into_iter()
+        .map(|(r, turn)| Span {
+            parts: &parts[r],
+            turn,
+        })
+        .peekable();
     for (i, s) in segs.iter().enumerate() {
         if s.speed_bound() == 0.0 {
             continue;
@@ -316,7 +340,7 @@ pub(super) fn lines(segs: &[Segment], tol: f64, out: &mut Pieces) -> Result<(), 
             continue;
         }
         while let Some(span) = next.next_if(|sp| sp.parts[0].index == i) {
-            fit_span(segs, span, tol, out)?;
+            fit_span(segs, &span, tol, &mut source, out)?;
         }
     }
     Ok(())
