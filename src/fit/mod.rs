@@ -506,18 +506,23 @@ fn greedy(
 ) -> Result<(), OverLimit> {
     let goal = SEARCH_GOAL * tol;
     let at = |t: f64| At { segment: index, t };
+    // The piece over [t0, t1]: the exact source, its approximation and its closed form if any.
+    let attempt = |t0: f64, t1: f64| {
+        let sub = s.subsegment(t0, t1);
+        let approx = approximate(target, &sub);
+        let closed = closed_form(&sub, &approx, tol);
+        (sub, approx, closed)
+    };
     let mut t0 = 0.0;
     let mut step: f64 = 1.0;
     while t0 < 1.0 {
-        let (mut t1, (mut approx, mut closed)) = search_end(t0, 1.0, step, goal, |t1| {
-            let sub = s.subsegment(t0, t1);
-            let approx = approximate(target, &sub);
-            let closed = closed_form(&sub, &approx, tol);
+        let (mut t1, (mut sub, mut approx, mut closed)) = search_end(t0, 1.0, step, goal, |t1| {
+            let (sub, approx, closed) = attempt(t0, t1);
             let e = closed.map_or_else(|| measure::estimate(&[sub], &approx, 16), |d| d.bound);
-            (e, (approx, closed))
+            (e, (sub, approx, closed))
         });
         let piece = loop {
-            let deviation = certified(&s.subsegment(t0, t1), &approx, closed, tol);
+            let deviation = certified(&sub, &approx, closed, tol);
             // Shorten until certified; a piece this short that still fails is kept and its
             // bound reported as it is (the contour is then flagged over tolerance).
             if deviation.bound <= tol || t1 - t0 < 1e-9 {
@@ -529,9 +534,7 @@ fn greedy(
                 };
             }
             t1 = t0 + 0.8 * (t1 - t0);
-            let sub = s.subsegment(t0, t1);
-            approx = approximate(target, &sub);
-            closed = closed_form(&sub, &approx, tol);
+            (sub, approx, closed) = attempt(t0, t1);
         };
         step = t1 - t0;
         t0 = t1;
