@@ -54,3 +54,34 @@ fn tangent_quad(s: &Segment) -> Option<QuadBez> {
     let b = t0.cross(chord) / denom;
     (a > 0.0 && b > 0.0).then(|| QuadBez::new(p0, p0 + a * t0, p2))
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::fit::parametric::quad_deviation;
+    use kurbo::{CubicBez, Vec2};
+
+    #[test]
+    fn the_mid_point_quadratic_has_the_least_parametric_distance() {
+        // The module doc's claim [derived]: moving the control point off the mid-point choice in
+        // any direction makes the parametric distance larger.
+        let c = Segment::Cubic(CubicBez::new(
+            (0.0, 0.0),
+            (1.0, 4.0),
+            (5.0, 5.0),
+            (8.0, 1.0),
+        ));
+        let [Segment::Quad(mid)] = approximate(&c)[..] else {
+            panic!("a cubic piece gets one quadratic");
+        };
+        let best = quad_deviation(&c, &mid, 1e-9).unwrap().bound;
+        for k in 0..16 {
+            for r in [1e-3, 0.1, 1.0] {
+                let v = r * Vec2::from_angle(f64::from(k) * std::f64::consts::PI / 8.0);
+                let moved = QuadBez::new(mid.p0, mid.p1 + v, mid.p2);
+                let d = quad_deviation(&c, &moved, 1e-9).unwrap();
+                assert!(d.bound > best, "moved by {v:?}: {} <= {best}", d.bound);
+            }
+        }
+    }
+}
