@@ -225,16 +225,17 @@ pub fn fit_limited(
         .iter()
         .map(|p| p.deviation)
         .fold(Deviation::zero(start), Deviation::max);
-    let segments = drafts.iter().flat_map(|p| p.out.iter().copied()).collect();
-    let pieces = drafts
-        .iter()
-        .map(|d| Piece {
+    let mut segments = Vec::with_capacity(out.segments);
+    let mut pieces = Vec::with_capacity(drafts.len());
+    for d in &drafts {
+        segments.extend(d.out.iter().copied());
+        pieces.push(Piece {
             segments: d.out.len(),
             from: d.from,
             to: d.to,
             deviation: d.deviation,
-        })
-        .collect();
+        });
+    }
     Ok(Fitted {
         contour: Contour::new(segments, contour.closed, contour.source.clone()),
         pieces,

@@ -159,13 +159,15 @@ impl Span<'_> {
     fn source_into(&self, segs: &[Segment], a: f64, b: f64, out: &mut Vec<Segment>) {
         let (ka, kb) = (a as usize, (b.ceil() as usize).min(self.parts.len()));
         out.clear();
-        out.extend((ka..kb.max(ka + 1)).filter_map(|k| {
+        for k in ka..kb.max(ka + 1) {
             let p = self.parts[k.min(self.parts.len() - 1)];
             let f0 = (a - k as f64).clamp(0.0, 1.0);
             let f1 = (b - k as f64).clamp(0.0, 1.0);
             let (t0, t1) = (p.t0 + f0 * (p.t1 - p.t0), p.t0 + f1 * (p.t1 - p.t0));
-            (t1 > t0).then(|| segs[p.index].subsegment(t0, t1))
-        }));
+            if t1 > t0 {
+                out.push(segs[p.index].subsegment(t0, t1));
+            }
+        }
     }
 
     /// A first guess at the length, in span positions, of a line from σ = `a` over which the
