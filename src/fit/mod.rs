@@ -153,7 +153,7 @@ impl std::error::Error for OverLimit {}
 
 /// The pieces of a fit so far, and the limit on their segments.
 struct Pieces {
-    pieces: Vec<Draft>,
+    drafts: Vec<Draft>,
     segments: usize,
     limit: usize,
 }
@@ -171,7 +171,7 @@ impl Pieces {
     fn push(&mut self, p: Draft) -> Result<(), OverLimit> {
         self.room(p.out.len())?;
         self.segments += p.out.len();
-        self.pieces.push(p);
+        self.drafts.push(p);
         Ok(())
     }
 }
@@ -193,7 +193,7 @@ pub fn fit_limited(
 ) -> Result<Fitted, OverLimit> {
     let tol = tol.mm();
     let mut out = Pieces {
-        pieces: Vec::new(),
+        drafts: Vec::new(),
         segments: 0,
         limit,
     };
@@ -216,7 +216,7 @@ pub fn fit_limited(
             }
         }
     }
-    let mut drafts = out.pieces;
+    let mut drafts = out.drafts;
     if target == Target::Cubic {
         drafts = merge::merge_smooth(&contour.segments, drafts, SEARCH_GOAL * tol);
     }

@@ -41,25 +41,27 @@ const ROUNDING: f64 = 1e-12;
 #[derive(Clone, Copy)]
 struct Interval {
     ub2: f64,
+    t0: f64,
     t1: f64,
     d: [Vec2; 4],
 }
 
 impl Interval {
-    fn new(t1: f64, d: [Vec2; 4]) -> Interval {
+    fn new(t0: f64, t1: f64, d: [Vec2; 4]) -> Interval {
         let ub2 = d.iter().map(|v| v.hypot2()).fold(0.0, f64::max);
-        Interval { ub2, t1, d }
+        Interval { ub2, t0, t1, d }
     }
 
-    /// The two halves (de Casteljau at ½), the first ending at `tm`.
-    fn split(&self, tm: f64) -> [Interval; 2] {
+    /// The two halves (de Casteljau at ½).
+    fn split(&self) -> [Interval; 2] {
         let [a, b, c, d] = self.d;
         let (ab, bc, cd) = ((a + b) * 0.5, (b + c) * 0.5, (c + d) * 0.5);
         let (abc, bcd) = ((ab + bc) * 0.5, (bc + cd) * 0.5);
         let mid = (abc + bcd) * 0.5;
+        let tm = 0.5 * (self.t0 + self.t1);
         [
-            Interval::new(tm, [a, ab, abc, mid]),
-            Interval::new(self.t1, [mid, bcd, cd, d]),
+            Interval::new(self.t0, tm, [a, ab, abc, mid]),
+            Interval::new(tm, self.t1, [mid, bcd, cd, d]),
         ]
     }
 }
@@ -110,10 +112,11 @@ fn closed_bound(d: &[Vec2; 4], slack: f64) -> Option<(f64, f64)> {
     );
     let value = |t: f64| diff.eval(t).to_vec2().hypot();
     let (lo, hi) = ((3.0 - r3) / 6.0, (3.0 + r3) / 6.0);
-    let (t, reached) = if value(lo) >= value(hi) {
-        (lo, value(lo))
+    let (at_lo, at_hi) = (value(lo), value(hi));
+    let (t, reached) = if at_lo >= at_hi {
+        (lo, at_lo)
     } else {
-        (hi, value(hi))
+        (hi, at_hi)
     };
     (bound <= reached + slack).then_some((bound, t))
 }
@@ -127,29 +130,28 @@ fn refined_bound(d: [Vec2; 4], slack: f64) -> (f64, f64) {
     } else {
         (d[3].hypot2(), 1.0)
     };
-    // Intervals in order along [0, 1], each starting where the previous one ends.
-    let mut intervals: ArrayVec<(f64, Interval), MAX_INTERVALS> = ArrayVec::new();
-    intervals.push((0.0, Interval::new(1.0, d)));
+    // The intervals that cover [0, 1], in no particular order.
+    let mut intervals: ArrayVec<Interval, MAX_INTERVALS> = ArrayVec::new();
+    intervals.push(Interval::new(0.0, 1.0, d));
     let bound = loop {
         let k = (1..intervals.len()).fold(0, |k, i| {
-            if intervals[i].1.ub2 > intervals[k].1.ub2 {
+            if intervals[i].ub2 > intervals[k].ub2 {
                 i
             } else {
                 k
             }
         });
-        let (t0, top) = intervals[k];
+        let top = intervals[k];
         let ub = top.ub2.sqrt();
         if ub <= best2.sqrt() + slack || intervals.is_full() {
             break ub;
         }
-        let tm = 0.5 * (t0 + top.t1);
-        let [left, right] = top.split(tm);
+        let [left, right] = top.split();
         if left.d[3].hypot2() > best2 {
-            (best2, best_t) = (left.d[3].hypot2(), tm);
+            (best2, best_t) = (left.d[3].hypot2(), left.t1);
         }
-        intervals[k] = (t0, left);
-        intervals.insert(k + 1, (tm, right));
+        intervals[k] = left;
+        intervals.push(right);
     };
     (bound.max(best2.sqrt()), best_t)
 }

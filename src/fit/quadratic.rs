@@ -9,8 +9,10 @@
 //! A polynomial piece is certified by its parametric distance (`parametric.rs`), for which the
 //! mid-point quadratic is the best of all: with Q's control point moved by δ from it, the
 //! difference is D(t) = 3t(1 − t)·((1 − 2t)·D₁ − (2/3)·δ), D₁ = (P3 − 3P2 + 3P1 − P0)/6, and
-//! max|D| is a convex function of δ that is smallest at δ = 0 (moving δ along D₁ grows one lobe
-//! of |D| more than it shrinks the other, moving it across D₁ grows both) [derived]. Other
+//! max|D| is a convex function of δ (a maximum of convex functions) that is smallest at δ = 0:
+//! at δ = 0 its two lobes peak at t = (3 ± √3)/6 with opposite values ±(√3/6)·D₁, and a move
+//! of δ shifts both peaks by the same vector, so moving δ along D₁ grows one peak as much as it
+//! shrinks the other, and moving it across D₁ grows both [derived]. Other
 //! pieces (conics, arcs) get the one of the two with the smaller estimated Hausdorff distance;
 //! `fit` certifies it.
 
