@@ -11,7 +11,7 @@
 
 use kurbo::{CubicBez, ParamCurve, ParamCurveDeriv, Point, Vec2};
 
-use super::{Draft, CERT_SLACK};
+use super::{with_segments, Piece, CERT_SLACK};
 use crate::geom::Segment;
 use crate::measure;
 
@@ -21,9 +21,12 @@ const SMOOTH_COS: f64 = 0.9994; // cos 2°
 /// The most pieces one merged cubic may replace.
 const MAX_RUN: usize = 12;
 
+/// A fitted piece with its output segments.
+type View<'a> = (&'a Piece, &'a [Segment]);
+
 /// The exact source a range of pieces covers.
-fn source_of(segs: &[Segment], pieces: &[Draft]) -> Vec<Segment> {
-    let (from, to) = (pieces[0].from, pieces[pieces.len() - 1].to);
+fn source_of(segs: &[Segment], pieces: &[View]) -> Vec<Segment> {
+    let (from, to) = (pieces[0].0.from, pieces[pieces.len() - 1].0.to);
     (from.segment..=to.segment)
         .filter_map(|i| {
             let t0 = if i == from.segment { from.t } else { 0.0 };
@@ -33,13 +36,13 @@ fn source_of(segs: &[Segment], pieces: &[Draft]) -> Vec<Segment> {
         .collect()
 }
 
-fn smooth_join(a: &Draft, b: &Draft) -> bool {
-    let (Some(Segment::Cubic(x)), Some(Segment::Cubic(y))) = (a.out.last(), b.out.first()) else {
+fn smooth_join(a: &View, b: &View) -> bool {
+    let (Some(Segment::Cubic(x)), Some(Segment::Cubic(y))) = (a.1.last(), b.1.first()) else {
         return false;
     };
     let (u, v) = (x.p3 - x.p2, y.p1 - y.p0);
     let (lu, lv) = (u.hypot(), v.hypot());
-    lu > 0.0 && lv > 0.0 && u.dot(v) >= SMOOTH_COS * lu * lv && a.to.segment <= b.from.segment
+    lu > 0.0 && lv > 0.0 && u.dot(v) >= SMOOTH_COS * lu * lv && a.0.to.segment <= b.0.from.segment
 }
 
 /// The least-squares cubic with fixed end points and end tangents through the samples, and the
@@ -106,7 +109,7 @@ fn fit_cubic(samples: &[Point], t0: Vec2, t1: Vec2) -> Option<(CubicBez, f64)> {
 }
 
 /// Try to replace pieces[i..=j] by one certified cubic.
-fn merged(segs: &[Segment], pieces: &[Draft], tol: f64) -> Option<Draft> {
+fn merged(segs: &[Segment], pieces: &[View], tol: f64) -> Option<(CubicBez, Piece)> {
     let source = source_of(segs, pieces);
     let first = source.first()?;
     let last = source.last()?;
@@ -119,43 +122,57 @@ fn merged(segs: &[Segment], pieces: &[Draft], tol: f64) -> Option<Draft> {
     if at_samples > tol {
         return None;
     }
-    let out = super::one(Segment::Cubic(cubic));
+    let out = [Segment::Cubic(cubic)];
     if measure::estimate(&source, &out, 12) > tol {
         return None;
     }
     let deviation = measure::hausdorff_within(&source, &out, CERT_SLACK * tol, tol);
-    (deviation.bound <= tol).then(|| Draft {
-        out,
-        from: pieces[0].from,
-        to: pieces[pieces.len() - 1].to,
-        deviation,
+    (deviation.bound <= tol).then(|| {
+        let piece = Piece {
+            segments: 1,
+            from: pieces[0].0.from,
+            to: pieces[pieces.len() - 1].0.to,
+            deviation,
+        };
+        (cubic, piece)
     })
 }
 
-/// Merge smooth runs of cubic pieces (see the module doc).
-pub fn merge_smooth(segs: &[Segment], pieces: Vec<Draft>, tol: f64) -> Vec<Draft> {
-    let mut out = Vec::with_capacity(pieces.len());
+/// Merge smooth runs of cubic pieces (see the module doc): the fit's output segments and pieces
+/// in, the merged ones out.
+pub fn merge_smooth(
+    segs: &[Segment],
+    segments: &[Segment],
+    pieces: &[Piece],
+    tol: f64,
+) -> (Vec<Segment>, Vec<Piece>) {
+    let views: Vec<View> = with_segments(pieces, segments).collect();
+    let mut out = (
+        Vec::with_capacity(segments.len()),
+        Vec::with_capacity(pieces.len()),
+    );
     let mut i = 0;
-    while i < pieces.len() {
-        let mut best: Option<(usize, Draft)> = None;
+    while i < views.len() {
+        let mut best = None;
         let mut j = i;
-        while j + 1 < pieces.len() && j + 1 - i < MAX_RUN && smooth_join(&pieces[j], &pieces[j + 1])
-        {
-            match merged(segs, &pieces[i..=j + 1], tol) {
-                Some(p) => {
-                    best = Some((j + 1, p));
+        while j + 1 < views.len() && j + 1 - i < MAX_RUN && smooth_join(&views[j], &views[j + 1]) {
+            match merged(segs, &views[i..=j + 1], tol) {
+                Some(m) => {
+                    best = Some((j + 1, m));
                     j += 1;
                 }
                 None => break,
             }
         }
         match best {
-            Some((end, p)) => {
-                out.push(p);
+            Some((end, (cubic, piece))) => {
+                out.0.push(Segment::Cubic(cubic));
+                out.1.push(piece);
                 i = end + 1;
             }
             None => {
-                out.push(pieces[i].clone());
+                out.0.extend_from_slice(views[i].1);
+                out.1.push(*views[i].0);
                 i += 1;
             }
         }

@@ -120,14 +120,22 @@ pub struct Fitted {
 impl Fitted {
     /// Every piece with its output segments.
     pub fn piece_segments(&self) -> impl Iterator<Item = (&Piece, &[Segment])> {
-        let mut start = 0;
-        self.pieces.iter().map(move |p| {
-            let end = start + p.segments;
-            let out = self.contour.segments.get(start..end).unwrap_or_default();
-            start = end;
-            (p, out)
-        })
+        with_segments(&self.pieces, &self.contour.segments)
     }
+}
+
+/// Every piece with its output segments, `segments` holding them in the pieces' order.
+fn with_segments<'a>(
+    pieces: &'a [Piece],
+    segments: &'a [Segment],
+) -> impl Iterator<Item = (&'a Piece, &'a [Segment])> {
+    let mut start = 0;
+    pieces.iter().map(move |p| {
+        let end = start + p.segments;
+        let out = segments.get(start..end).unwrap_or_default();
+        start = end;
+        (p, out)
+    })
 }
 
 /// Slack of the certification relative to the tolerance: a certified bound is at most this much
@@ -151,17 +159,17 @@ impl std::fmt::Display for OverLimit {
 
 impl std::error::Error for OverLimit {}
 
-/// The pieces of a fit so far, and the limit on their segments.
+/// The pieces of a fit so far with their output segments, and the limit on the segments.
 struct Pieces {
-    drafts: Vec<Draft>,
-    segments: usize,
+    segments: Vec<Segment>,
+    pieces: Vec<Piece>,
     limit: usize,
 }
 
 impl Pieces {
     /// Fails if `n` more segments would pass the limit.
     fn room(&self, n: usize) -> Result<(), OverLimit> {
-        if self.segments.saturating_add(n) > self.limit {
+        if self.segments.len().saturating_add(n) > self.limit {
             Err(OverLimit { limit: self.limit })
         } else {
             Ok(())
@@ -170,8 +178,13 @@ impl Pieces {
 
     fn push(&mut self, p: Draft) -> Result<(), OverLimit> {
         self.room(p.out.len())?;
-        self.segments += p.out.len();
-        self.drafts.push(p);
+        self.segments.extend(p.out.iter().copied());
+        self.pieces.push(Piece {
+            segments: p.out.len(),
+            from: p.from,
+            to: p.to,
+            deviation: p.deviation,
+        });
         Ok(())
     }
 }
@@ -192,9 +205,11 @@ pub fn fit_limited(
     limit: usize,
 ) -> Result<Fitted, OverLimit> {
     let tol = tol.mm();
+    // (Every segment of length gives at least one piece, save for merged cubics.)
+    let n = contour.segments.len();
     let mut out = Pieces {
-        drafts: Vec::new(),
-        segments: 0,
+        segments: Vec::with_capacity(n),
+        pieces: Vec::with_capacity(n),
         limit,
     };
     let runs = runs(&contour.segments);
@@ -216,26 +231,21 @@ pub fn fit_limited(
             }
         }
     }
-    let mut drafts = out.drafts;
-    if target == Target::Cubic {
-        drafts = merge::merge_smooth(&contour.segments, drafts, SEARCH_GOAL * tol);
-    }
+    let (segments, pieces) = if target == Target::Cubic {
+        merge::merge_smooth(
+            &contour.segments,
+            &out.segments,
+            &out.pieces,
+            SEARCH_GOAL * tol,
+        )
+    } else {
+        (out.segments, out.pieces)
+    };
     let start = contour.start().unwrap_or(Point::ORIGIN);
-    let deviation = drafts
+    let deviation = pieces
         .iter()
         .map(|p| p.deviation)
         .fold(Deviation::zero(start), Deviation::max);
-    let mut segments = Vec::with_capacity(out.segments);
-    let mut pieces = Vec::with_capacity(drafts.len());
-    for d in &drafts {
-        segments.extend(d.out.iter().copied());
-        pieces.push(Piece {
-            segments: d.out.len(),
-            from: d.from,
-            to: d.to,
-            deviation: d.deviation,
-        });
-    }
     Ok(Fitted {
         contour: Contour::new(segments, contour.closed, contour.source.clone()),
         pieces,

@@ -32,6 +32,7 @@ use std::ops::Range;
 use arrayvec::ArrayVec;
 use kurbo::{Line, Point, Vec2, MAX_EXTREMA};
 
+use super::lines::{self, PowerPiece};
 use super::{search_end, At, Draft, OverLimit, Pieces, CERT_SLACK, SEARCH_GOAL, SEARCH_WINDOW};
 use crate::geom::{CircularArc, Segment};
 use crate::measure::{self, Deviation};
@@ -155,17 +156,16 @@ impl Span<'_> {
         }
     }
 
-    /// The exact source between span positions a < b, into `out` (cleared first).
-    fn source_into(&self, segs: &[Segment], a: f64, b: f64, out: &mut Vec<Segment>) {
+    /// Every source segment under span positions a < b with its parameter interval, in order.
+    fn each_part(&self, segs: &[Segment], a: f64, b: f64, mut f: impl FnMut(&Segment, f64, f64)) {
         let (ka, kb) = (a as usize, (b.ceil() as usize).min(self.parts.len()));
-        out.clear();
         for k in ka..kb.max(ka + 1) {
             let p = self.parts[k.min(self.parts.len() - 1)];
             let f0 = (a - k as f64).clamp(0.0, 1.0);
             let f1 = (b - k as f64).clamp(0.0, 1.0);
             let (t0, t1) = (p.t0 + f0 * (p.t1 - p.t0), p.t0 + f1 * (p.t1 - p.t0));
             if t1 > t0 {
-                out.push(segs[p.index].subsegment(t0, t1));
+                f(&segs[p.index], t0, t1);
             }
         }
     }
@@ -247,7 +247,7 @@ fn fit_span(
     segs: &[Segment],
     span: &Span,
     tol: f64,
-    source: &mut Vec<Segment>,
+    source: &mut Vec<PowerPiece>,
     out: &mut Pieces,
 ) -> Result<(), OverLimit> {
     let goal = SEARCH_GOAL * tol;
@@ -262,8 +262,11 @@ fn fit_span(
     let mut line_to = |a: f64, va: Point, b: f64| {
         let d = if b >= end { 0.0 } else { offset };
         let line = Line::new(va, span.vertex(segs, &anchors, b, d));
-        span.source_into(segs, a, b, source);
-        (line, super::lines::line_deviation_and_spread(source, line))
+        source.clear();
+        span.each_part(segs, a, b, |s, t0, t1| {
+            lines::push_pieces(s, t0, t1, source)
+        });
+        (line, lines::line_deviation_and_spread(source, line))
     };
     let mut a = 0.0;
     let mut previous = None;
@@ -299,7 +302,7 @@ fn fit_span(
                     b = end;
                     line = line_to(a, va, b).0;
                     let mut source = Vec::new();
-                    span.source_into(segs, a, b, &mut source);
+                    span.each_part(segs, a, b, |s, t0, t1| source.push(s.subsegment(t0, t1)));
                     let out = [Segment::Line(line)];
                     break measure::hausdorff_within(&source, &out, CERT_SLACK * tol, tol);
                 }
