@@ -12,13 +12,13 @@
 //! So d_H ≤ max(max|y|, |V0 − C₀|, |V1 − C₁|) + the overhangs, and max|y| ≤ d_H is attained.
 //!
 //! Every piece is taken in power form over its own parameter interval [t₀, t₁] of the source
-//! segment, C(t) = N(t) / W(t) with N a polynomial of degree ≤ 3 and W = 1 for a line or a
-//! Bézier, W the weight polynomial (positive on [0, 1]) for a conic; no piece is cut out of its
-//! segment. A frame coordinate is then X(t) / W(t) with X = (N − W·V0)·e, and its derivative has
+//! segment (`power.rs`): C(t) = N(t) / W(t) with N a polynomial of degree ≤ 3 and W = 1 for a
+//! line or a Bézier, W the weight polynomial (positive on [0, 1]) for a conic; no piece is cut
+//! out of its segment. A frame coordinate is then X(t) / W(t) with X = (N − W·V0)·e, and its derivative has
 //! the sign of X′W − XW′, a quadratic in t for every kind (the cubic terms cancel for a conic;
 //! a cubic has W = 1): x is non-decreasing on [t₀, t₁] exactly when that quadratic is ≥ 0 at t₀,
-//! at t₁ and at its vertex when the vertex lies between (the quotient rule; a circular arc is
-//! first written as conics). y's extremes lie at the ends or at the roots of Y′W − YW′.
+//! at t₁ and, when it opens upwards, at its vertex if that lies between (the quotient rule; a
+//! circular arc is first written as conics). y's extremes lie at the ends or at the roots of Y′W − YW′.
 //!
 //! Pieces of a run meet only up to rounding (a segment's end evaluated in power form, or the
 //! next segment's start, is a rounded value). Where one piece starts a distance j from the
@@ -29,128 +29,63 @@
 //! With the line's ends on the curve (a chord) the bound is exactly max|y|, the chord's
 //! sagitta.
 
-use arrayvec::ArrayVec;
 use kurbo::common::solve_quadratic;
-use kurbo::{Line, Point, Vec2};
+use kurbo::{Line, Vec2};
 
+use super::power::{push_pieces, PowerPiece};
 use crate::geom::Segment;
 use crate::measure::Deviation;
 
 /// Relative allowance for floating-point evaluation of the closed forms.
 const ROUNDING: f64 = 1e-12;
 
-/// A source segment over [t0, t1] in power form: C(t) = N(t) / W(t), N(t) = Σ nᵢ·tⁱ,
-/// W(t) = Σ wᵢ·tⁱ (module docs).
-#[derive(Clone, Copy, Debug)]
-pub struct PowerPiece {
-    n: [Vec2; 4],
+/// A piece in the line's frame: x(t) = X(t) / W(t), y(t) = Y(t) / W(t), X(t) = Σ xᵢ·tⁱ and
+/// Y(t) = Σ yᵢ·tⁱ.
+struct Framed {
+    x: [f64; 4],
+    y: [f64; 4],
     w: [f64; 3],
-    t0: f64,
-    t1: f64,
 }
 
-/// One frame coordinate of a piece, X(t) / W(t) with X(t) = Σ cᵢ·tⁱ.
-struct Coordinate<'a> {
-    c: [f64; 4],
-    w: &'a [f64; 3],
+/// The power coefficients of X′W − XW′ for X(t) = Σ cᵢ·tⁱ, which has the sign of the
+/// coordinate's derivative (module docs; c₃ ≠ 0 only where W = w₀).
+fn slope_numerator(c: &[f64; 4], w: &[f64; 3]) -> [f64; 3] {
+    let [c0, c1, c2, c3] = *c;
+    let [w0, w1, w2] = *w;
+    [
+        c1 * w0 - c0 * w1,
+        2.0 * (c2 * w0 - c0 * w2),
+        c2 * w1 - c1 * w2 + 3.0 * c3 * w0,
+    ]
 }
 
-impl Coordinate<'_> {
-    fn at(&self, t: f64) -> f64 {
-        let [c0, c1, c2, c3] = self.c;
-        let [w0, w1, w2] = *self.w;
-        (c0 + t * (c1 + t * (c2 + t * c3))) / (w0 + t * (w1 + t * w2))
-    }
-
-    /// The power coefficients of X′W − XW′, which has the sign of the coordinate's derivative
-    /// (module docs; c₃ ≠ 0 only where W = w₀).
-    fn slope_numerator(&self) -> [f64; 3] {
-        let [c0, c1, c2, c3] = self.c;
-        let [w0, w1, w2] = *self.w;
-        [
-            c1 * w0 - c0 * w1,
-            2.0 * (c2 * w0 - c0 * w2),
-            c2 * w1 - c1 * w2 + 3.0 * c3 * w0,
-        ]
+impl Framed {
+    /// The frame point (x, y) at t.
+    fn at(&self, t: f64) -> Vec2 {
+        let cubic = |c: &[f64; 4]| c[0] + t * (c[1] + t * (c[2] + t * c[3]));
+        let w = self.w[0] + t * (self.w[1] + t * self.w[2]);
+        Vec2::new(cubic(&self.x), cubic(&self.y)) / w
     }
 }
 
-impl PowerPiece {
-    /// Segment `s` over [t0, t1]; `None` for a circular arc (see [`push_pieces`]).
-    fn of(s: &Segment, t0: f64, t1: f64) -> Option<PowerPiece> {
-        let v = |p: Point| p.to_vec2();
-        let (n, w) = match s {
-            Segment::Line(l) => (
-                [v(l.p0), l.p1 - l.p0, Vec2::ZERO, Vec2::ZERO],
-                [1.0, 0.0, 0.0],
-            ),
-            Segment::Quad(q) => (
-                [
-                    v(q.p0),
-                    2.0 * (q.p1 - q.p0),
-                    v(q.p0) - 2.0 * v(q.p1) + v(q.p2),
-                    Vec2::ZERO,
-                ],
-                [1.0, 0.0, 0.0],
-            ),
-            Segment::Cubic(c) => (
-                [
-                    v(c.p0),
-                    3.0 * (c.p1 - c.p0),
-                    3.0 * (v(c.p0) - 2.0 * v(c.p1) + v(c.p2)),
-                    v(c.p3) - 3.0 * v(c.p2) + 3.0 * v(c.p1) - v(c.p0),
-                ],
-                [1.0, 0.0, 0.0],
-            ),
-            Segment::Conic(k) => {
-                let [h0, h1, h2] = k.homogeneous();
-                let (a, b) = (2.0 * (h1 - h0), h0 - 2.0 * h1 + h2);
-                let xy = |h: nalgebra::Vector3<f64>| Vec2::new(h.x, h.y);
-                ([xy(h0), xy(a), xy(b), Vec2::ZERO], [h0.z, a.z, b.z])
-            }
-            Segment::Arc(_) => return None,
-        };
-        Some(PowerPiece { n, w, t0, t1 })
-    }
-
-    /// The coordinate along the unit vector `e` measured from `origin`.
-    fn along(&self, origin: Vec2, e: Vec2) -> Coordinate<'_> {
+/// The piece in the frame with origin `origin` and unit axes `u` (x) and `n` (y).
+fn framed(p: &PowerPiece, origin: Vec2, u: Vec2, n: Vec2) -> Framed {
+    let [n0, n1, n2, n3] = p.n;
+    let [w0, w1, w2] = p.w;
+    let along = |e: Vec2| {
         let o = origin.dot(e);
-        let [n0, n1, n2, n3] = self.n;
-        let [w0, w1, w2] = self.w;
-        Coordinate {
-            c: [
-                n0.dot(e) - w0 * o,
-                n1.dot(e) - w1 * o,
-                n2.dot(e) - w2 * o,
-                n3.dot(e),
-            ],
-            w: &self.w,
-        }
+        [
+            n0.dot(e) - w0 * o,
+            n1.dot(e) - w1 * o,
+            n2.dot(e) - w2 * o,
+            n3.dot(e),
+        ]
+    };
+    Framed {
+        x: along(u),
+        y: along(n),
+        w: p.w,
     }
-}
-
-/// Segment `s` over [t0, t1] as power-form pieces, into `out`: one piece, or the conics of a
-/// circular arc's sub-arc.
-pub fn push_pieces(s: &Segment, t0: f64, t1: f64, out: &mut Vec<PowerPiece>) {
-    match (s, PowerPiece::of(s, t0, t1)) {
-        (_, Some(p)) => out.push(p),
-        (Segment::Arc(_), None) => {
-            let mut conics = Vec::new();
-            s.subsegment(t0, t1)
-                .transform(kurbo::Affine::IDENTITY, &mut conics);
-            out.extend(conics.iter().filter_map(|c| PowerPiece::of(c, 0.0, 1.0)));
-        }
-        (_, None) => {}
-    }
-}
-
-/// The parameters where the quadratic q₀ + q₁t + q₂t² vanishes strictly inside (t0, t1).
-fn roots_inside(q: [f64; 3], t0: f64, t1: f64) -> ArrayVec<f64, 2> {
-    solve_quadratic(q[0], q[1], q[2])
-        .into_iter()
-        .filter(|t| *t > t0 && *t < t1)
-        .collect()
 }
 
 /// Whether the quadratic q₀ + q₁t + q₂t² is ≥ 0 on all of [t0, t1].
@@ -186,27 +121,32 @@ pub fn line_deviation_and_spread(pieces: &[PowerPiece], line: Line) -> Option<(D
     let mut prev_end: Option<Vec2> = None;
     let (mut first, mut last) = (Vec2::ZERO, Vec2::ZERO);
     let mut gaps = 0.0;
-    // The largest |y| so far, at the frame point (x, y).
+    // The largest |y| so far, at the frame point `at`.
     let (mut h, mut at) = (0.0, None);
     let (mut y_min, mut y_max) = (f64::INFINITY, f64::NEG_INFINITY);
+    let mut visit = |q: Vec2| {
+        (y_min, y_max) = (y_min.min(q.y), y_max.max(q.y));
+        if q.y.abs() > h {
+            (h, at) = (q.y.abs(), Some(q));
+        }
+    };
     for p in pieces {
-        let (x, y) = (p.along(origin, u), p.along(origin, n));
-        if !non_negative(x.slope_numerator(), p.t0, p.t1) {
+        let f = framed(p, origin, u, n);
+        if !non_negative(slope_numerator(&f.x, &f.w), p.t0, p.t1) {
             return None;
         }
-        let start = Vec2::new(x.at(p.t0), y.at(p.t0));
-        let end = Vec2::new(x.at(p.t1), y.at(p.t1));
+        let (start, end) = (f.at(p.t0), f.at(p.t1));
         match prev_end {
             Some(e) => gaps += (start - e).hypot(),
             None => first = start,
         }
         (prev_end, last) = (Some(end), end);
-        let turns = roots_inside(y.slope_numerator(), p.t0, p.t1);
-        let inner = turns.iter().map(|&t| Vec2::new(x.at(t), y.at(t)));
-        for q in [start, end].into_iter().chain(inner) {
-            (y_min, y_max) = (y_min.min(q.y), y_max.max(q.y));
-            if q.y.abs() > h {
-                (h, at) = (q.y.abs(), Some(q));
+        visit(start);
+        visit(end);
+        let [q0, q1, q2] = slope_numerator(&f.y, &f.w);
+        for &t in solve_quadratic(q0, q1, q2).iter() {
+            if t > p.t0 && t < p.t1 {
+                visit(f.at(t));
             }
         }
     }
@@ -226,7 +166,7 @@ pub fn line_deviation_and_spread(pieces: &[PowerPiece], line: Line) -> Option<(D
 mod tests {
     use super::*;
     use crate::measure::hausdorff;
-    use kurbo::{Affine, CubicBez, QuadBez};
+    use kurbo::{Affine, CubicBez, Point, QuadBez};
 
     #[test]
     fn closed_forms_agree_with_the_certified_measurement() {

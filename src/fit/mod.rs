@@ -36,6 +36,7 @@ mod cubic;
 mod lines;
 mod merge;
 mod parametric;
+mod power;
 mod quadratic;
 mod spread;
 

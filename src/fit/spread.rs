@@ -32,7 +32,8 @@ use std::ops::Range;
 use arrayvec::ArrayVec;
 use kurbo::{Line, Point, Vec2, MAX_EXTREMA};
 
-use super::lines::{self, PowerPiece};
+use super::lines;
+use super::power::{self, PowerPiece};
 use super::{search_end, At, Draft, OverLimit, Pieces, CERT_SLACK, SEARCH_GOAL, SEARCH_WINDOW};
 use crate::geom::{CircularArc, Segment};
 use crate::measure::{self, Deviation};
@@ -44,12 +45,46 @@ const OFFSET_SHARE: f64 = 0.95;
 /// Joins whose tangents differ by less than this (sine of the angle) are smooth.
 const SMOOTH_SIN: f64 = 1e-6;
 
-/// One piece of a span: source segment `index` over [t0, t1].
+/// One piece of a span: source segment `index` over [t0, t1], in power form where it has one
+/// (`power.rs`).
 #[derive(Clone, Copy, Debug)]
 struct Part {
     index: usize,
     t0: f64,
     t1: f64,
+    power: Option<PowerPiece>,
+    /// The segment's speed bound: the scale below which its velocity counts as vanishing.
+    speed: f64,
+}
+
+impl Part {
+    /// The point at t and the unit tangent there (see [`Segment::tangent_at`]).
+    fn point_tangent(&self, segs: &[Segment], t: f64) -> (Point, Option<Vec2>) {
+        if let Some(p) = &self.power {
+            let (q, v) = p.point_velocity(t);
+            let len = v.hypot();
+            if len > 1e-9 * self.speed {
+                return (q, Some(v / len));
+            }
+        }
+        let s = &segs[self.index];
+        (s.eval(t), s.tangent_at(t))
+    }
+
+    fn normal_acceleration(&self, segs: &[Segment], t: f64) -> f64 {
+        match &self.power {
+            Some(p) => p.normal_acceleration(t),
+            None => segs[self.index].normal_acceleration_at(t),
+        }
+    }
+
+    /// The source over [t0, t1] (inside the part's interval) as power-form pieces, into `out`.
+    fn push_pieces(&self, segs: &[Segment], t0: f64, t1: f64, out: &mut Vec<PowerPiece>) {
+        match self.power {
+            Some(p) => out.push(p.over(t0, t1)),
+            None => power::push_pieces(&segs[self.index], t0, t1, out),
+        }
+    }
 }
 
 /// A point of the curve and its outward unit normal (none where the tangent is undefined).
@@ -116,7 +151,8 @@ fn spans(segs: &[Segment]) -> (Vec<Part>, Vec<(Range<usize>, f64)>) {
     let mut out: Vec<(Range<usize>, f64)> = Vec::new();
     let mut open = false;
     for (i, s) in segs.iter().enumerate() {
-        if matches!(s, Segment::Line(_)) || s.speed_bound() == 0.0 {
+        let speed = s.speed_bound();
+        if matches!(s, Segment::Line(_)) || speed == 0.0 {
             open = false;
             continue;
         }
@@ -129,6 +165,8 @@ fn spans(segs: &[Segment]) -> (Vec<Part>, Vec<(Range<usize>, f64)>) {
                 index: i,
                 t0: w[0],
                 t1: w[1],
+                power: PowerPiece::of(s, w[0], w[1]),
+                speed,
             };
             let turn = turn_of(s, w[0], w[1]);
             let joins = k == 0 && open && i > 0 && smooth_join(&segs[i - 1], s);
@@ -144,28 +182,39 @@ fn spans(segs: &[Segment]) -> (Vec<Part>, Vec<(Range<usize>, f64)>) {
 }
 
 impl Span<'_> {
-    /// Source segment and parameter at span position σ ∈ [0, parts] (part k covers [k, k+1]).
-    fn at(&self, sigma: f64) -> At {
+    /// The part at span position σ ∈ [0, parts] (part k covers [k, k+1]) and the parameter
+    /// there.
+    fn locate(&self, sigma: f64) -> (&Part, f64) {
         // (σ ≥ 0, so the cast is its floor.)
         let k = (sigma as usize).min(self.parts.len() - 1);
-        let p = self.parts[k];
+        let p = &self.parts[k];
         let f = (sigma - k as f64).clamp(0.0, 1.0);
+        (p, p.t0 + f * (p.t1 - p.t0))
+    }
+
+    /// Source segment and parameter at span position σ.
+    fn at(&self, sigma: f64) -> At {
+        let (p, t) = self.locate(sigma);
         At {
             segment: p.index,
-            t: p.t0 + f * (p.t1 - p.t0),
+            t,
         }
     }
 
-    /// Every source segment under span positions a < b with its parameter interval, in order.
-    fn each_part(&self, segs: &[Segment], a: f64, b: f64, mut f: impl FnMut(&Segment, f64, f64)) {
-        let (ka, kb) = (a as usize, (b.ceil() as usize).min(self.parts.len()));
-        for k in ka..kb.max(ka + 1) {
-            let p = self.parts[k.min(self.parts.len() - 1)];
-            let f0 = (a - k as f64).clamp(0.0, 1.0);
-            let f1 = (b - k as f64).clamp(0.0, 1.0);
-            let (t0, t1) = (p.t0 + f0 * (p.t1 - p.t0), p.t0 + f1 * (p.t1 - p.t0));
-            if t1 > t0 {
-                f(&segs[p.index], t0, t1);
+    /// Every part under span positions a < b with the parameter interval it has there, in order.
+    fn each_part(&self, a: f64, b: f64, mut f: impl FnMut(&Part, f64, f64)) {
+        // (0 ≤ a < b, so the casts are floors.)
+        let last = self.parts.len() - 1;
+        let (ka, kb) = ((a as usize).min(last), (b as usize).min(last));
+        for (k, p) in self.parts.iter().enumerate().take(kb + 1).skip(ka) {
+            let f0 = if k == ka { a - k as f64 } else { 0.0 };
+            let f1 = if k == kb {
+                (b - k as f64).min(1.0)
+            } else {
+                1.0
+            };
+            if f1 > f0 {
+                f(p, p.t0 + f0 * (p.t1 - p.t0), p.t0 + f1 * (p.t1 - p.t0));
             }
         }
     }
@@ -176,11 +225,8 @@ impl Span<'_> {
     /// taken here half a step ahead: half the `previous` line's length ahead, or half the step
     /// predicted at `a` for the first line.
     fn guess(&self, segs: &[Segment], a: f64, bulge: f64, previous: Option<f64>) -> f64 {
-        let k = (a as usize).min(self.parts.len() - 1);
-        let p = self.parts[k];
-        let s = &segs[p.index];
-        let step_at = |t: f64| (8.0 * bulge / s.normal_acceleration_at(t).abs()).sqrt();
-        let t = self.at(a).t;
+        let (p, t) = self.locate(a);
+        let step_at = |t: f64| (8.0 * bulge / p.normal_acceleration(segs, t).abs()).sqrt();
         let ahead = previous.map_or_else(|| step_at(t), |h| h * (p.t1 - p.t0));
         let h = step_at((t + 0.5 * ahead).min(p.t1)) / (p.t1 - p.t0);
         if h.is_finite() && h > 0.0 {
@@ -192,10 +238,9 @@ impl Span<'_> {
 
     /// The point at span position σ and the curve's outward unit normal there.
     fn point_normal(&self, segs: &[Segment], sigma: f64) -> Anchor {
-        let at = self.at(sigma);
-        let s = &segs[at.segment];
-        let normal = s.tangent_at(at.t).map(|t| self.turn * Vec2::new(t.y, -t.x));
-        (s.eval(at.t), normal)
+        let (p, t) = self.locate(sigma);
+        let (point, tangent) = p.point_tangent(segs, t);
+        (point, tangent.map(|t| self.turn * Vec2::new(t.y, -t.x)))
     }
 
     /// The vertex at span position σ: on the curve, or up to `d` outside it, but never past
@@ -263,9 +308,7 @@ fn fit_span(
         let d = if b >= end { 0.0 } else { offset };
         let line = Line::new(va, span.vertex(segs, &anchors, b, d));
         source.clear();
-        span.each_part(segs, a, b, |s, t0, t1| {
-            lines::push_pieces(s, t0, t1, source)
-        });
+        span.each_part(a, b, |p, t0, t1| p.push_pieces(segs, t0, t1, source));
         (line, lines::line_deviation_and_spread(source, line))
     };
     let mut a = 0.0;
@@ -302,7 +345,9 @@ fn fit_span(
                     b = end;
                     line = line_to(a, va, b).0;
                     let mut source = Vec::new();
-                    span.each_part(segs, a, b, |s, t0, t1| source.push(s.subsegment(t0, t1)));
+                    span.each_part(a, b, |p, t0, t1| {
+                        source.push(segs[p.index].subsegment(t0, t1));
+                    });
                     let out = [Segment::Line(line)];
                     break measure::hausdorff_within(&source, &out, CERT_SLACK * tol, tol);
                 }
