@@ -165,44 +165,14 @@ pub fn line_deviation_and_spread(pieces: &[PowerPiece], line: Line) -> Option<(D
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::fit::power::sample_curves;
     use crate::measure::hausdorff;
     use kurbo::{Affine, CubicBez, Point, QuadBez};
 
     #[test]
     fn closed_forms_agree_with_the_certified_measurement() {
-        let cases = [
-            Segment::Quad(QuadBez::new((0.0, 0.0), (5.0, 10.0), (10.0, 0.0))),
-            Segment::Cubic(CubicBez::new(
-                (0.0, 0.0),
-                (2.0, 3.0),
-                (7.0, -2.0),
-                (10.0, 0.0),
-            )),
-            Segment::Cubic(CubicBez::new(
-                (0.0, 0.0),
-                (3.0, 4.0),
-                (6.0, 4.0),
-                (10.0, 1.0),
-            )),
-            Segment::Conic(
-                crate::geom::Conic::new(
-                    Point::new(0.0, 0.0),
-                    Point::new(4.0, 6.0),
-                    0.6,
-                    Point::new(10.0, 1.0),
-                )
-                .unwrap(),
-            ),
-            Segment::Conic(
-                crate::geom::Conic::new(
-                    Point::new(0.0, 0.0),
-                    Point::new(4.0, 6.0),
-                    3.0,
-                    Point::new(10.0, 1.0),
-                )
-                .unwrap(),
-            ),
-        ];
+        let cubic = CubicBez::new((0.0, 0.0), (3.0, 4.0), (6.0, 4.0), (10.0, 1.0));
+        let cases = sample_curves().into_iter().chain([Segment::Cubic(cubic)]);
         let chord = |s: &Segment| Line::new(s.start(), s.end());
         for s in cases {
             let exact = line_deviation(&[s], chord(&s)).expect("a graph over its chord");
@@ -243,23 +213,7 @@ mod tests {
     fn a_piece_over_part_of_its_segment_equals_the_cut_segment() {
         // The power form over [0.2, 0.7] against the segment cut there by de Casteljau (kurbo's
         // subsegment; blossoming for the conic): the same bound and spread up to rounding.
-        let conic = crate::geom::Conic::new(
-            Point::new(0.0, 0.0),
-            Point::new(4.0, 6.0),
-            0.6,
-            Point::new(10.0, 1.0),
-        )
-        .unwrap();
-        for s in [
-            Segment::Quad(QuadBez::new((0.0, 0.0), (5.0, 10.0), (10.0, 0.0))),
-            Segment::Cubic(CubicBez::new(
-                (0.0, 0.0),
-                (2.0, 3.0),
-                (7.0, -2.0),
-                (10.0, 0.0),
-            )),
-            Segment::Conic(conic),
-        ] {
+        for s in sample_curves() {
             let (a, b) = (s.eval(0.2), s.eval(0.7));
             let line = Line::new(a + Vec2::new(0.0, 0.1), b + Vec2::new(0.0, 0.1));
             let mut pieces = Vec::new();

@@ -114,43 +114,38 @@ pub fn push_pieces(s: &Segment, t0: f64, t1: f64, out: &mut Vec<PowerPiece>) {
     }
 }
 
+/// Curves of every kind with a power form, for tests: the quadratic of shared REFERENCES §5, a
+/// cubic with an inflection, an elliptic (w = 0.6) and a hyperbolic (w = 3) conic.
+#[cfg(test)]
+pub(super) fn sample_curves() -> [Segment; 4] {
+    let conic = |w: f64| {
+        let [p0, p1, p2] = [(0.0, 0.0), (4.0, 6.0), (10.0, 1.0)].map(Point::from);
+        Segment::Conic(crate::geom::Conic::new(p0, p1, w, p2).expect("positive weight"))
+    };
+    [
+        Segment::Quad(kurbo::QuadBez::new((0.0, 0.0), (5.0, 10.0), (10.0, 0.0))),
+        Segment::Cubic(kurbo::CubicBez::new(
+            (0.0, 0.0),
+            (2.0, 3.0),
+            (7.0, -2.0),
+            (10.0, 0.0),
+        )),
+        conic(0.6),
+        conic(3.0),
+    ]
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::geom::Conic;
-    use kurbo::{CubicBez, QuadBez};
 
     #[test]
     fn power_form_agrees_with_the_segments_own_evaluation() {
         // Each kind's own de Casteljau evaluation, derivative and normal acceleration (the
         // conic's by its constant determinant, `conic.rs`; kurbo's hodographs otherwise)
         // against the power form at interior parameters.
-        let conic = Conic::new(
-            Point::new(0.0, 0.0),
-            Point::new(4.0, 6.0),
-            0.6,
-            Point::new(10.0, 1.0),
-        )
-        .unwrap();
-        let hyperbola = Conic::new(
-            Point::new(0.0, 0.0),
-            Point::new(4.0, 6.0),
-            3.0,
-            Point::new(10.0, 1.0),
-        )
-        .unwrap();
-        for s in [
-            Segment::Line(kurbo::Line::new((1.0, 2.0), (7.0, -3.0))),
-            Segment::Quad(QuadBez::new((0.0, 0.0), (5.0, 10.0), (10.0, 0.0))),
-            Segment::Cubic(CubicBez::new(
-                (0.0, 0.0),
-                (2.0, 3.0),
-                (7.0, -2.0),
-                (10.0, 0.0),
-            )),
-            Segment::Conic(conic),
-            Segment::Conic(hyperbola),
-        ] {
+        let line = Segment::Line(kurbo::Line::new((1.0, 2.0), (7.0, -3.0)));
+        for s in std::iter::once(line).chain(sample_curves()) {
             let p = PowerPiece::of(&s, 0.0, 1.0).unwrap();
             for t in [0.0, 0.13, 0.5, 0.77, 1.0] {
                 let (point, velocity) = p.point_velocity(t);
