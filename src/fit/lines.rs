@@ -153,7 +153,10 @@ pub fn line_deviation_and_spread(pieces: &[PowerPiece], line: Line) -> Option<(D
     let overhang = (-first.x).max(0.0) + (last.x - len).max(0.0);
     let ends = first.hypot().max((last - Vec2::new(len, 0.0)).hypot());
     let at = v0 + at.map_or(first, |q| q.x * u + q.y * n);
-    let scale = v0.to_vec2().hypot().max(v1.to_vec2().hypot()).max(len);
+    // (|x| + |y| ≥ the distance from the origin.)
+    let scale = (v0.x.abs() + v0.y.abs())
+        .max(v1.x.abs() + v1.y.abs())
+        .max(len);
     let deviation = Deviation {
         bound: h.max(ends) + overhang + gaps + ROUNDING * scale,
         sampled: h,
