@@ -40,31 +40,36 @@ use crate::measure::Deviation;
 const ROUNDING: f64 = 1e-12;
 
 /// A piece in the line's frame: x(t) = X(t) / W(t), y(t) = Y(t) / W(t), X(t) = Σ xᵢ·tⁱ and
-/// Y(t) = Σ yᵢ·tⁱ.
+/// Y(t) = Σ yᵢ·tⁱ; `w` is `None` where W = 1 (a line or a Bézier), which spares the divisions.
 struct Framed {
     x: [f64; 4],
     y: [f64; 4],
-    w: [f64; 3],
+    w: Option<[f64; 3]>,
 }
 
 /// The power coefficients of X′W − XW′ for X(t) = Σ cᵢ·tⁱ, which has the sign of the
-/// coordinate's derivative (module docs; c₃ ≠ 0 only where W = w₀).
-fn slope_numerator(c: &[f64; 4], w: &[f64; 3]) -> [f64; 3] {
+/// coordinate's derivative (module docs; c₃ ≠ 0 only where W = 1, where this is X′).
+fn slope_numerator(c: &[f64; 4], w: Option<[f64; 3]>) -> [f64; 3] {
     let [c0, c1, c2, c3] = *c;
-    let [w0, w1, w2] = *w;
-    [
-        c1 * w0 - c0 * w1,
-        2.0 * (c2 * w0 - c0 * w2),
-        c2 * w1 - c1 * w2 + 3.0 * c3 * w0,
-    ]
+    match w {
+        None => [c1, 2.0 * c2, 3.0 * c3],
+        Some([w0, w1, w2]) => [
+            c1 * w0 - c0 * w1,
+            2.0 * (c2 * w0 - c0 * w2),
+            c2 * w1 - c1 * w2 + 3.0 * c3 * w0,
+        ],
+    }
 }
 
 impl Framed {
     /// The frame point (x, y) at t.
     fn at(&self, t: f64) -> Vec2 {
         let cubic = |c: &[f64; 4]| c[0] + t * (c[1] + t * (c[2] + t * c[3]));
-        let w = self.w[0] + t * (self.w[1] + t * self.w[2]);
-        Vec2::new(cubic(&self.x), cubic(&self.y)) / w
+        let q = Vec2::new(cubic(&self.x), cubic(&self.y));
+        match self.w {
+            None => q,
+            Some(w) => q / (w[0] + t * (w[1] + t * w[2])),
+        }
     }
 }
 
@@ -84,7 +89,7 @@ fn framed(p: &PowerPiece, origin: Vec2, u: Vec2, n: Vec2) -> Framed {
     Framed {
         x: along(u),
         y: along(n),
-        w: p.w,
+        w: (!p.is_polynomial()).then_some(p.w),
     }
 }
 
@@ -132,7 +137,7 @@ pub fn line_deviation_and_spread(pieces: &[PowerPiece], line: Line) -> Option<(D
     };
     for p in pieces {
         let f = framed(p, origin, u, n);
-        if !non_negative(slope_numerator(&f.x, &f.w), p.t0, p.t1) {
+        if !non_negative(slope_numerator(&f.x, f.w), p.t0, p.t1) {
             return None;
         }
         let (start, end) = (f.at(p.t0), f.at(p.t1));
@@ -143,7 +148,7 @@ pub fn line_deviation_and_spread(pieces: &[PowerPiece], line: Line) -> Option<(D
         (prev_end, last) = (Some(end), end);
         visit(start);
         visit(end);
-        let [q0, q1, q2] = slope_numerator(&f.y, &f.w);
+        let [q0, q1, q2] = slope_numerator(&f.y, f.w);
         for &t in solve_quadratic(q0, q1, q2).iter() {
             if t > p.t0 && t < p.t1 {
                 visit(f.at(t));

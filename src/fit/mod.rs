@@ -177,6 +177,13 @@ impl Pieces {
         }
     }
 
+    /// Room for about `n` more pieces of one segment each (a capacity hint, within the limit).
+    fn reserve(&mut self, n: usize) {
+        let n = n.min(self.limit.saturating_sub(self.segments.len()));
+        self.segments.reserve(n);
+        self.pieces.reserve(n);
+    }
+
     fn push(&mut self, p: Draft) -> Result<(), OverLimit> {
         self.room(p.out.len())?;
         self.segments.extend(p.out.iter().copied());
@@ -206,13 +213,16 @@ pub fn fit_limited(
     limit: usize,
 ) -> Result<Fitted, OverLimit> {
     let tol = tol.mm();
-    // (Every segment of length gives at least one piece, save for merged cubics.)
-    let n = contour.segments.len();
     let mut out = Pieces {
-        segments: Vec::with_capacity(n),
-        pieces: Vec::with_capacity(n),
+        segments: Vec::new(),
+        pieces: Vec::new(),
         limit,
     };
+    if target != Target::Lines {
+        // (Every segment of length gives at least one piece, save for merged cubics; lines
+        // size their output themselves.)
+        out.reserve(contour.segments.len());
+    }
     let runs = runs(&contour.segments);
     match (target, runs.as_slice()) {
         (Target::Lines, [Run::Circle { arc, parts }])
@@ -231,6 +241,11 @@ pub fn fit_limited(
                 }
             }
         }
+    }
+    if out.segments.capacity() > 2 * out.segments.len() + 16 {
+        // (A capacity hint that was far too generous.)
+        out.segments.shrink_to_fit();
+        out.pieces.shrink_to_fit();
     }
     let (segments, pieces) = if target == Target::Cubic {
         merge::merge_smooth(

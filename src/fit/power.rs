@@ -67,6 +67,11 @@ impl PowerPiece {
         Some(PowerPiece { n, w, t0, t1 })
     }
 
+    /// Whether W = 1 (a line or a Bézier).
+    pub fn is_polynomial(&self) -> bool {
+        self.w == [1.0, 0.0, 0.0]
+    }
+
     /// The same segment over [t0, t1].
     pub fn over(self, t0: f64, t1: f64) -> PowerPiece {
         PowerPiece { t0, t1, ..self }
@@ -87,6 +92,9 @@ impl PowerPiece {
     /// The point and the velocity C′ at t.
     pub fn point_velocity(&self, t: f64) -> (Point, Vec2) {
         let ([n, d, _], [w, dw, _]) = self.jets(t);
+        if self.is_polynomial() {
+            return (n.to_point(), d);
+        }
         ((n / w).to_point(), (d * w - n * dw) / (w * w))
     }
 
@@ -94,6 +102,9 @@ impl PowerPiece {
     /// as [`Segment::normal_acceleration_at`]; infinite or NaN where the velocity vanishes.
     pub fn normal_acceleration(&self, t: f64) -> f64 {
         let ([n, d, dd], [w, dw, ddw]) = self.jets(t);
+        if self.is_polynomial() {
+            return d.cross(dd) / d.hypot();
+        }
         let det = w * d.cross(dd) - dw * n.cross(dd) + ddw * n.cross(d);
         det / (w * (d * w - n * dw).hypot())
     }

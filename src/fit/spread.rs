@@ -374,9 +374,42 @@ fn fit_span(
     Ok(())
 }
 
+/// The most lines [`expected_lines`] promises for one contour.
+const MAX_EXPECTED: usize = 1 << 16;
+
+/// About how many lines the parts need, for sizing the output: over each part, its parameter
+/// length over the step the curvature at its middle predicts for a line that bulges by `bulge`
+/// (as [`Span::guess`]).
+fn expected_lines(segs: &[Segment], parts: &[Part], bulge: f64) -> usize {
+    let lines: f64 = parts
+        .iter()
+        .map(|p| {
+            let n = p.normal_acceleration(segs, 0.5 * (p.t0 + p.t1)).abs();
+            let step = (8.0 * bulge / n).sqrt();
+            let lines = (p.t1 - p.t0) / step;
+            if lines.is_finite() {
+                lines
+            } else {
+                0.0
+            }
+        })
+        .sum();
+    // (A hint: capped, so a curve with a near-cusp at a part's middle cannot claim much.)
+    (lines.ceil() as usize).min(MAX_EXPECTED)
+}
+
 /// Fit a contour with lines, the error spread to both sides of its curves.
 pub(super) fn lines(segs: &[Segment], tol: f64, out: &mut Pieces) -> Result<(), OverLimit> {
     let (parts, ranges) = spans(segs);
+    let goal = SEARCH_GOAL * tol;
+    let expected = expected_lines(segs, &parts, aimed_bulge(false, goal, OFFSET_SHARE * goal));
+    // (The estimate was within 4% of the count on DejaVu Sans, under it for 28 of 15,985
+    // contours.)
+    let lines_in = segs
+        .iter()
+        .filter(|s| matches!(s, Segment::Line(_)))
+        .count();
+    out.reserve(expected + ranges.len() + lines_in);
     let mut source = Vec::new();
     let mut next = ranges
         .into_iter()
@@ -420,6 +453,7 @@ pub(super) fn circle(
     };
     out.room(n.min(usize::MAX as f64) as usize)?;
     let n = n as usize;
+    out.reserve(n);
     let big = 2.0 * r / (1.0 + (PI / n as f64).cos());
     let vertex = |k: usize| {
         let a = arc.start_angle + arc.sweep * k as f64 / n as f64;
