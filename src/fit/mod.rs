@@ -309,7 +309,7 @@ fn same_circle(a: &CircularArc, b: &CircularArc) -> bool {
 }
 
 fn runs(segs: &[Segment]) -> Vec<Run> {
-    let mut out = Vec::new();
+    let mut out = Vec::with_capacity(segs.len());
     let mut i = 0;
     while i < segs.len() {
         let Some(first) = circle_of(&segs[i]) else {

@@ -148,7 +148,7 @@ fn smooth_join(a: &Segment, b: &Segment) -> bool {
 /// Returned as every span's parts in order, and each span's range of them and turn.
 fn spans(segs: &[Segment]) -> (Vec<Part>, Vec<(Range<usize>, f64)>) {
     let mut parts = Vec::with_capacity(2 * segs.len());
-    let mut out: Vec<(Range<usize>, f64)> = Vec::new();
+    let mut out: Vec<(Range<usize>, f64)> = Vec::with_capacity(segs.len());
     let mut open = false;
     for (i, s) in segs.iter().enumerate() {
         let speed = s.speed_bound();
@@ -221,6 +221,16 @@ impl Span<'_> {
                 f(p, p.t0 + f0 * (p.t1 - p.t0), p.t0 + f1 * (p.t1 - p.t0));
             }
         }
+    }
+
+    /// The source under span positions a < b as one power-form piece, when it lies within one
+    /// part that has one.
+    fn single_piece(&self, a: f64, b: f64) -> Option<PowerPiece> {
+        let k = floor_index(a).min(self.parts.len() - 1);
+        let p = &self.parts[k];
+        let (f0, f1) = (a - k as f64, b - k as f64);
+        let piece = p.power.filter(|_| f1 <= 1.0)?;
+        Some(piece.over(p.t0 + f0 * (p.t1 - p.t0), p.t0 + f1 * (p.t1 - p.t0)))
     }
 
     /// A first guess at the length, in span positions, of a line from σ = `a` over which the
@@ -311,9 +321,19 @@ fn fit_span(
     let mut line_to = |a: f64, va: Point, b: f64| {
         let d = if b >= end { 0.0 } else { offset };
         let line = Line::new(va, span.vertex(segs, &anchors, b, d));
-        source.clear();
-        span.each_part(a, b, |p, t0, t1| p.push_pieces(segs, t0, t1, source));
-        (line, lines::line_deviation_and_spread(source, line))
+        let one;
+        let pieces = match span.single_piece(a, b) {
+            Some(p) => {
+                one = p;
+                std::slice::from_ref(&one)
+            }
+            None => {
+                source.clear();
+                span.each_part(a, b, |p, t0, t1| p.push_pieces(segs, t0, t1, source));
+                source.as_slice()
+            }
+        };
+        (line, lines::line_deviation_and_spread(pieces, line))
     };
     let mut a = 0.0;
     let mut previous = None;
