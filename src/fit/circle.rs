@@ -9,7 +9,17 @@
 //!   r(√(1 + (4/27)·sin⁶(θ/4)/cos²(θ/4)) − 1) [derived; first-order form in Goldapp, CAGD 8
 //!   (1991) 227-238], increasing in θ, inverted here by bisection.
 //!
-//! The certified measurement in `fit` has the last word on every piece.
+//! These pieces are certified in closed form ([`deviation`]). Each is convex and starts and ends
+//! on the arc, so seen from the centre its angle runs monotonically over the arc's angles: every
+//! point of the piece is |ρ − r| from the arc (ρ its distance from the centre; the nearest point
+//! of the circle lies straight out, inside the arc), and every point of the arc has the piece's
+//! point at the same angle |ρ − r| away. The Hausdorff distance is therefore the largest radial
+//! error, given above for the exact pieces. The computed piece's control points differ from the
+//! exact ones by rounding only, and a Bézier moves by at most the largest move of its control
+//! points (its basis functions are non-negative and sum to one; Farin, *Curves and Surfaces for
+//! CAGD*, 5th ed., §5.2, convex hull property), so an allowance for that rounding makes the bound
+//! certain. Where the closed form does not put a piece within the tolerance, the general
+//! measurement in `fit` decides.
 
 use std::f64::consts::{FRAC_PI_2, PI};
 
@@ -17,6 +27,7 @@ use kurbo::{CubicBez, Line, ParamCurve, Point, QuadBez, Vec2};
 
 use super::{Out, Target};
 use crate::geom::{CircularArc, Segment};
+use crate::measure::Deviation;
 
 /// The largest sweep of one piece of `target` on a circle of radius r within tolerance e.
 pub fn max_piece_sweep(target: Target, r: f64, e: f64) -> f64 {
@@ -90,6 +101,63 @@ pub fn approximate(target: Target, a: &CircularArc) -> Out {
     super::one(seg)
 }
 
+/// The certified deviation of `out`, the [`approximate`] quadratic or cubic of arc `a`, from it
+/// (module docs); `None` for other pieces, or sweeps beyond those the closed forms cover.
+pub fn deviation(target: Target, a: &CircularArc, out: &[Segment]) -> Option<Deviation> {
+    let (r, theta) = (a.radius, a.sweep.abs());
+    let exact = match (target, out) {
+        (Target::Quadratic, [Segment::Quad(_)]) if theta <= FRAC_PI_2 => {
+            let c = (0.5 * theta).cos();
+            r * (1.0 - c).powi(2) / (2.0 * c)
+        }
+        (Target::Cubic, [Segment::Cubic(_)]) if theta <= PI => r * cubic_error(theta),
+        _ => return None,
+    };
+    if !(r > 0.0 && theta > 0.0 && exact.is_finite()) {
+        return None;
+    }
+    // Rounding of the control points (a few ulps of the coordinates; the trigonometry within
+    // an ulp of the radius), with a wide margin.
+    let allowance = 1e-12 * (a.center.x.abs() + a.center.y.abs() + 4.0 * r);
+    // Where the computed piece is farthest from the circle: its radial error on the first half
+    // (the pieces are symmetric), maximised by golden-section search (the error rises from
+    // the start to one peak: at the middle for the quadratic, inside the half for the cubic).
+    let seg = &out[0];
+    let radial = |t: f64| ((seg.eval(t) - a.center).hypot() - r).abs();
+    let peak = golden_max(radial, 0.0, 0.5);
+    let peak = if radial(0.5) >= radial(peak) {
+        0.5
+    } else {
+        peak
+    };
+    let at = seg.eval(peak);
+    Some(Deviation {
+        bound: exact + allowance,
+        sampled: radial(peak),
+        at: [at.x, at.y],
+    })
+}
+
+/// The argument of the maximum of a unimodal `f` on [lo, hi], by golden-section search
+/// (Kiefer 1953) to within 1e-9 of the interval.
+fn golden_max(f: impl Fn(f64) -> f64, mut lo: f64, mut hi: f64) -> f64 {
+    const INV_PHI: f64 = 0.618_033_988_749_894_9;
+    let (mut a, mut b) = (hi - INV_PHI * (hi - lo), lo + INV_PHI * (hi - lo));
+    let (mut fa, mut fb) = (f(a), f(b));
+    while hi - lo > 1e-9 {
+        if fa < fb {
+            (lo, a, fa) = (a, b, fb);
+            b = lo + INV_PHI * (hi - lo);
+            fb = f(b);
+        } else {
+            (hi, b, fb) = (b, a, fa);
+            a = hi - INV_PHI * (hi - lo);
+            fa = f(a);
+        }
+    }
+    0.5 * (lo + hi)
+}
+
 /// The unit tangent at angle φ, turning from +x towards +y; with a signed tangent length the
 /// direction of travel follows the sweep's sign.
 fn tangent(phi: f64) -> Vec2 {
@@ -113,6 +181,59 @@ mod tests {
         assert_relative_eq!(cubic_error(PI / 3.0), 2.38644e-5, max_relative = 1e-5);
         assert_relative_eq!(cubic_error(2.0 * PI / 3.0), 1.54202e-3, max_relative = 1e-5);
         assert_relative_eq!(cubic_error(PI), 1.83502e-2, max_relative = 1e-5);
+    }
+
+    #[test]
+    fn closed_form_deviation_agrees_with_the_certified_measurement() {
+        // Arcs of radius 0.5 to 400 mm around centres up to 500 mm out, both directions, sweeps
+        // up to each closed form's limit: the closed-form bound covers the distance the general
+        // measurement attains, the closed form's attained distance is within the measurement's
+        // bound, and the two agree to within the measurement's slack.
+        let mut k = 0u32;
+        let mut next = move || {
+            // A Weyl sequence on the golden ratio (equidistributed, from memory).
+            k += 1;
+            (f64::from(k) * 0.618_033_988_749_895).fract()
+        };
+        for i in 0..120 {
+            let target = if i % 2 == 0 {
+                Target::Quadratic
+            } else {
+                Target::Cubic
+            };
+            let limit = if target == Target::Quadratic {
+                FRAC_PI_2
+            } else {
+                PI
+            };
+            let r = 0.5 * 800f64.powf(next());
+            let sign = if i % 4 < 2 { 1.0 } else { -1.0 };
+            let arc = CircularArc {
+                center: Point::new(1000.0 * next() - 500.0, 1000.0 * next() - 500.0),
+                radius: r,
+                start_angle: 2.0 * PI * next(),
+                sweep: sign * limit * (0.02 + 0.98 * next()),
+            };
+            let out = approximate(target, &arc);
+            let d = deviation(target, &arc, &out).expect("within the closed form's sweeps");
+            let slack = 1e-7 * r;
+            let m = crate::measure::hausdorff(&[Segment::Arc(arc)], &out, slack);
+            assert!(d.bound >= m.sampled, "{arc:?}: {d:?} vs {m:?}");
+            assert!(d.sampled <= m.bound, "{arc:?}: {d:?} vs {m:?}");
+            assert!(
+                d.bound - m.sampled <= 2.0 * slack,
+                "{arc:?}: {d:?} vs {m:?}"
+            );
+        }
+        // Beyond the sweeps the closed forms cover, nothing is claimed.
+        let wide = CircularArc {
+            center: Point::ORIGIN,
+            radius: 1.0,
+            start_angle: 0.0,
+            sweep: 0.6 * PI,
+        };
+        let out = approximate(Target::Quadratic, &wide);
+        assert!(deviation(Target::Quadratic, &wide, &out).is_none());
     }
 
     #[test]

@@ -395,17 +395,6 @@ fn certified(source: &Segment, out: &[Segment], closed: Option<Deviation>, tol: 
     })
 }
 
-/// Certify one piece against the exact source it replaces.
-fn certify(source: &Segment, out: Out, tol: f64, from: At, to: At) -> Draft {
-    let deviation = certified(source, &out, closed_form(source, &out, tol), tol);
-    Draft {
-        out,
-        from,
-        to,
-        deviation,
-    }
-}
-
 /// An exact piece (identity or degree elevation): no approximation, nothing to measure.
 fn exact(out: Segment, index: usize) -> Draft {
     Draft {
@@ -452,14 +441,14 @@ fn circular_run(
             .map(|i| {
                 let (f0, f1) = (i as f64 / n as f64, (i + 1) as f64 / n as f64);
                 let sub = arc.subsegment(f0..f1);
-                let approx = circle::approximate(target, &sub);
-                certify(
-                    &Segment::Arc(sub),
-                    approx,
-                    tol,
-                    run_position(parts, f0),
-                    run_position(parts, f1),
-                )
+                let out = circle::approximate(target, &sub);
+                let closed = circle::deviation(target, &sub, &out);
+                Draft {
+                    deviation: certified(&Segment::Arc(sub), &out, closed, tol),
+                    out,
+                    from: run_position(parts, f0),
+                    to: run_position(parts, f1),
+                }
             })
             .collect();
         if pieces.iter().all(|p| p.deviation.bound <= tol) {
