@@ -11,11 +11,17 @@
 //! stays near 1% of it. A contour whose sum still exceeds the tolerance is refitted tighter once;
 //! whatever remains is reported, never hidden.
 //!
-//! Rounding is measured window by window on long contours: the distance from a point to a set
-//! is at most its distance to any subset, so the directed distance from a run of F to the part
-//! of R written from the same run (with a margin of neighbours) bounds the directed distance to
-//! all of R from above, and the maximum over runs (both ways) is still a certified bound on
-//! d_H(F, R), found in time linear in the contour's length rather than quadratic.
+//! Rounding is bounded segment by segment when R pairs up with F (the same number of segments,
+//! the same kinds): the distance from a point to a set is at most its distance to any subset,
+//! so d_H(F, R) ≤ maxᵢ d_H(Fᵢ, Rᵢ). For a line or Bézier pair the term is closed form: every
+//! point B(t) = Σ bₖ(t)·Pₖ is a convex combination of the control points (the Bernstein
+//! polynomials are non-negative and sum to 1; Farin, *Curves and Surfaces for CAGD*, 5th ed.,
+//! §4.3), so |Fᵢ(t) − Rᵢ(t)| ≤ maxₖ |Pₖ − P′ₖ| at every t, which bounds both directed
+//! distances; other pairs (arcs, conics) are measured. Where R does not pair up (a writer
+//! dropped or split a segment), rounding is measured window by window: the directed distance
+//! from a run of F to the part of R written from the same run (with a margin of neighbours)
+//! bounds the directed distance to all of R from above, and the maximum over runs (both ways)
+//! is still a certified bound on d_H(F, R), found in time linear in the contour's length.
 //!
 //! Limits. A contour of more than [`MAX_SEGMENTS_PER_CONTOUR`] segments is refused before any
 //! work; the output of a job may hold at most [`JobOptions::max_segments`] segments (default
@@ -26,6 +32,7 @@
 use std::fmt;
 use std::sync::atomic::{AtomicUsize, Ordering};
 
+use kurbo::Point;
 use rayon::prelude::*;
 use serde::Serialize;
 
@@ -161,6 +168,39 @@ impl From<write::WriteError> for JobError {
     }
 }
 
+/// A certified bound on d_H(F, R) pair by pair (see the module docs); `None` when R does not
+/// pair up with F.
+fn paired_hausdorff(f: &[Segment], r: &[Segment], slack: f64) -> Option<f64> {
+    if f.len() != r.len() {
+        return None;
+    }
+    f.iter().zip(r).try_fold(0.0, |worst: f64, (a, b)| {
+        let d = match (a, b) {
+            (Segment::Line(a), Segment::Line(b)) => moved(&[a.p0, a.p1], &[b.p0, b.p1]),
+            (Segment::Quad(a), Segment::Quad(b)) => moved(&[a.p0, a.p1, a.p2], &[b.p0, b.p1, b.p2]),
+            (Segment::Cubic(a), Segment::Cubic(b)) => {
+                moved(&[a.p0, a.p1, a.p2, a.p3], &[b.p0, b.p1, b.p2, b.p3])
+            }
+            (Segment::Arc(_), Segment::Arc(_)) | (Segment::Conic(_), Segment::Conic(_)) => {
+                measure::hausdorff(std::slice::from_ref(a), std::slice::from_ref(b), slack).bound
+            }
+            _ => return None,
+        };
+        Some(worst.max(d))
+    })
+}
+
+/// The largest distance between corresponding control points, rounded up: each difference and
+/// `hypot` are correctly rounded or within an ulp, so 8 ε of relative margin covers them.
+fn moved(a: &[Point], b: &[Point]) -> f64 {
+    let d = a
+        .iter()
+        .zip(b)
+        .map(|(p, q)| (*p - *q).hypot())
+        .fold(0.0, f64::max);
+    d * (1.0 + 8.0 * f64::EPSILON)
+}
+
 /// A certified bound on d_H(F, R), window by window (see the module docs).
 fn windowed_hausdorff(f: &[Segment], r: &[Segment], slack: f64) -> f64 {
     if f.len() <= ROUNDING_WINDOW || r.is_empty() {
@@ -192,7 +232,10 @@ fn rounding(fitted: &Contour, formats: &[Format], decimals: u32, tol: f64) -> f6
                 Format::Gcode => write::gcode::gcode_as_read(fitted, decimals),
             };
             match read {
-                Ok(r) => windowed_hausdorff(&fitted.segments, &r.segments, 1e-3 * tol),
+                Ok(r) => {
+                    let (f, r, slack) = (&fitted.segments, &r.segments, 1e-3 * tol);
+                    paired_hausdorff(f, r, slack).unwrap_or_else(|| windowed_hausdorff(f, r, slack))
+                }
                 // A contour the format cannot hold is reported by the writer itself.
                 Err(_) => 0.0,
             }
@@ -461,12 +504,12 @@ pub fn run_job(
     }
     let tol = job.tolerance;
     let decimals = decimals_for(tol);
+    // G-code holds lines and arcs: a lines or arcs job writes the fit itself, any other target
+    // gets a lines fit of its own for the G-code.
+    let gcode_of_main = matches!(job.target, Some(Target::Lines | Target::Arcs));
     let main_formats: Vec<Format> = [
         (job.svg, Format::Svg),
-        (
-            job.gcode.is_some() && job.target == Some(Target::Arcs),
-            Format::Gcode,
-        ),
+        (job.gcode.is_some() && gcode_of_main, Format::Gcode),
     ]
     .iter()
     .filter(|(on, _)| *on)
@@ -502,8 +545,8 @@ pub fn run_job(
     let gcode = match &job.gcode {
         Some(g) => {
             let lines;
-            let gfit = match (&fitted, job.target) {
-                (Some(f), Some(Target::Arcs)) => f,
+            let gfit = match &fitted {
+                Some(f) if gcode_of_main => f,
                 _ => {
                     lines = fit_outline(
                         outline,
@@ -546,4 +589,85 @@ pub fn run_job(
         gcode,
         fitted,
     })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::testing::Rng;
+    use kurbo::{CubicBez, Line, QuadBez};
+
+    #[test]
+    fn the_paired_rounding_bound_covers_the_measurement_within_the_half_unit_limit() {
+        // Random open contours of lines, quadratics and cubics, written as SVG with 0–4
+        // decimals and read back: the closed-form bound is at least the distance the certified
+        // measurement attains, and at most the √2/2·10⁻ᵈ a coordinate rounding can move a point
+        // (the module docs).
+        let mut rng = Rng::new(7);
+        for d in 0..=4 {
+            for _ in 0..40 {
+                let mut p = || Point::new(600.0 * rng.unit() - 300.0, 600.0 * rng.unit() - 300.0);
+                let mut pen = p();
+                let segments: Vec<Segment> = (0..8)
+                    .map(|i| {
+                        let s = match i % 3 {
+                            0 => Segment::Line(Line::new(pen, p())),
+                            1 => Segment::Quad(QuadBez::new(pen, p(), p())),
+                            _ => Segment::Cubic(CubicBez::new(pen, p(), p(), p())),
+                        };
+                        pen = s.end();
+                        s
+                    })
+                    .collect();
+                let c = Contour::new(segments, false, Source::new("t.svg", "#p", 0));
+                let r = write::svg::svg_as_read(&c, d).unwrap();
+                let bound = paired_hausdorff(&c.segments, &r.segments, 1e-9).unwrap();
+                let m = measure::hausdorff(&c.segments, &r.segments, 1e-9);
+                // (The measurement evaluates the curves in floating point: its attained value
+                // carries errors of a few ulps of the 300 mm coordinates.)
+                assert!(bound >= m.sampled - 1e-12, "{d} decimals: {bound} < {m:?}");
+                let half_unit = 0.5 * std::f64::consts::SQRT_2 * 10f64.powi(-(d as i32));
+                assert!(
+                    bound <= half_unit * (1.0 + 1e-12),
+                    "{d}: {bound} > {half_unit}"
+                );
+            }
+        }
+    }
+
+    #[test]
+    fn a_read_back_that_does_not_pair_up_is_measured_instead() {
+        let f = [Segment::Line(Line::new((0.0, 0.0), (10.0, 0.0)))];
+        let r = [
+            Segment::Line(Line::new((0.0, 0.0), (5.0, 0.001))),
+            Segment::Line(Line::new((5.0, 0.001), (10.0, 0.0))),
+        ];
+        assert_eq!(paired_hausdorff(&f, &r, 1e-9), None);
+        let q = [Segment::Quad(QuadBez::new(
+            (0.0, 0.0),
+            (5.0, 0.0),
+            (10.0, 0.0),
+        ))];
+        assert_eq!(paired_hausdorff(&f, &q, 1e-9), None);
+        // The fallback measures the two-piece read-back: its corner is 0.001 off the line.
+        assert!((windowed_hausdorff(&f, &r, 1e-9) - 0.001).abs() < 1e-8);
+        // Window by window on a long contour: a 300-line zigzag, one line written as two.
+        let p = |i: usize| Point::new(i as f64, (i % 2) as f64);
+        let long: Vec<Segment> = (0..300)
+            .map(|i| Segment::Line(Line::new(p(i), p(i + 1))))
+            .collect();
+        let mut split = long.clone();
+        let mid = Point::new(150.5, 0.5 + 0.002);
+        split.splice(
+            150..151,
+            [
+                Segment::Line(Line::new(p(150), mid)),
+                Segment::Line(Line::new(mid, p(151))),
+            ],
+        );
+        assert_eq!(paired_hausdorff(&long, &split, 1e-9), None);
+        // (The corner is 0.002 above the line y = x − 150 at x = 150.5: 0.002/√2 away.)
+        let expected = 0.002 * std::f64::consts::FRAC_1_SQRT_2;
+        assert!((windowed_hausdorff(&long, &split, 1e-9) - expected).abs() < 1e-8);
+    }
 }

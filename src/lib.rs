@@ -11,6 +11,8 @@ pub mod inspect;
 pub mod measure;
 pub mod prep;
 pub mod read;
+#[cfg(test)]
+mod testing;
 pub mod verify;
 pub mod write;
 

@@ -241,15 +241,8 @@ mod tests {
         // intervals, against lines whose ends lie near the piece's ends: wherever the closed
         // form applies, its bound is at least the certified measurement's attained distance,
         // and its attained max|y| at most the measurement's bound.
-        let mut state = 0x9E37_79B9_7F4A_7C15_u64;
-        let mut unit = move || {
-            // xorshift64* (Vigna, "An experimental exploration of Marsaglia's xorshift
-            // generators, scrambled", ACM TOMS 42, 2016).
-            state ^= state >> 12;
-            state ^= state << 25;
-            state ^= state >> 27;
-            (state.wrapping_mul(0x2545_F491_4F6C_DD1D) >> 11) as f64 / (1u64 << 53) as f64
-        };
+        let mut rng = crate::testing::Rng::new(0x9E37_79B9_7F4A_7C15);
+        let mut unit = move || rng.unit();
         let mut applied = 0;
         for i in 0..600 {
             let mut p = || Point::new(20.0 * unit(), 20.0 * unit());

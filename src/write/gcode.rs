@@ -219,10 +219,8 @@ const CAUTIONS: [&str; 4] = [
 pub fn gcode_program(contours: &[Contour], opts: &GcodeOptions) -> Result<String, WriteError> {
     validate(opts)?;
     let d = opts.decimals;
-    let plans: Vec<(&Contour, Plan)> = contours
-        .iter()
-        .filter_map(|c| plan(c, d).map(|p| p.map(|p| (c, p))).transpose())
-        .collect::<Result<_, _>>()?;
+    // (`plan` leaves out exactly the contours without a start point.)
+    let planned = contours.iter().filter(|c| c.start().is_some()).count();
     let n = |x: f64| fixed(x, d);
     let mut out = String::new();
     let mut line = |s: String| {
@@ -253,7 +251,7 @@ pub fn gcode_program(contours: &[Contour], opts: &GcodeOptions) -> Result<String
         n(opts.cut_z),
         n(opts.feed),
         n(opts.plunge_rate),
-        plans.len()
+        planned
     )));
     for c in CAUTIONS {
         line(comment(c));
@@ -267,7 +265,11 @@ pub fn gcode_program(contours: &[Contour], opts: &GcodeOptions) -> Result<String
     if let Some(rpm) = opts.spindle_rpm {
         line(format!("M3 S{}", fixed(rpm, 0)));
     }
-    for (contour, p) in &plans {
+    for contour in contours {
+        // (Planned one contour at a time: the moves of a whole job need not be held at once.)
+        let Some(p) = plan(contour, d)? else {
+            continue;
+        };
         line(comment(&contour.source.to_string()));
         line(safe.clone());
         line(format!("G0 X{} Y{}", n(p.start.x), n(p.start.y)));

@@ -21,20 +21,66 @@ use kurbo::{ParamCurve, Point, Vec2};
 use crate::geom::{CircularArc, Segment, Source};
 
 /// `x` with exactly `decimals` digits after the point; a rounded zero is written without a sign.
+/// The digits are those of Rust's `{:.d}`: the exact binary value rounded to the nearest
+/// multiple of 10⁻ᵈ, ties to even.
 fn fixed(x: f64, decimals: u32) -> String {
-    let s = format!("{:.*}", decimals as usize, x);
-    match s.strip_prefix('-') {
-        Some(rest) if rest.bytes().all(|b| b == b'0' || b == b'.') => rest.to_string(),
-        _ => s,
+    let Some(n) = scaled(x, decimals) else {
+        let s = format!("{:.*}", decimals as usize, x);
+        return match s.strip_prefix('-') {
+            Some(rest) if rest.bytes().all(|b| b == b'0' || b == b'.') => rest.to_string(),
+            _ => s,
+        };
+    };
+    let unit = POW10[decimals as usize] as u64;
+    let (whole, frac) = (n.unsigned_abs() / unit, n.unsigned_abs() % unit);
+    let sign = if n < 0 { "-" } else { "" };
+    if decimals == 0 {
+        format!("{sign}{whole}")
+    } else {
+        format!("{sign}{whole}.{frac:0w$}", w = decimals as usize)
     }
 }
 
-/// The value a reader gets back from `fixed(x, decimals)`.
+/// The value a reader gets back from `fixed(x, decimals)`: n / 10ᵈ, correctly rounded like the
+/// parse of the written decimal (both n and 10ᵈ are exact in f64, and IEEE 754 division is
+/// correctly rounded).
 fn as_written(x: f64, decimals: u32) -> f64 {
-    // A finite f64 formatted with `{:.d}` is a plain decimal, which always parses.
-    fixed(x, decimals)
-        .parse()
-        .expect("a formatted finite number parses")
+    match scaled(x, decimals) {
+        Some(n) => n as f64 / POW10[decimals as usize],
+        // A finite f64 formatted with `{:.d}` is a plain decimal, which always parses.
+        None => fixed(x, decimals)
+            .parse()
+            .expect("a formatted finite number parses"),
+    }
+}
+
+/// 10⁰ … 10²², each exact in f64 (5²² < 2⁵³).
+const POW10: [f64; 23] = [
+    1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16,
+    1e17, 1e18, 1e19, 1e20, 1e21, 1e22,
+];
+
+/// x·10ᵈ rounded to the nearest integer, ties to even, decided on the exact product; `None`
+/// when it is not below 4·10¹⁵ in magnitude (or not finite). With p = fl(x·10ᵈ), the error
+/// e = fma(x, 10ᵈ, −p) is exact, x·10ᵈ = p + e (Ogita, Rump & Oishi, "Accurate sum and dot
+/// product", SIAM J. Sci. Comput. 26, 2005, TwoProduct). Below 2⁵² the ulp u of p is at most ½,
+/// r = round(p) and p − r are exact, and |e| ≤ u/2: if |p − r| < ½ it is at most ½ − u, so the
+/// exact product rounds to r too; if p sits on a half, the sign of e breaks the tie [derived].
+fn scaled(x: f64, decimals: u32) -> Option<i64> {
+    let s = *POW10.get(decimals as usize)?;
+    let p = x * s;
+    if p.is_nan() || p.abs() >= 4e15 {
+        return None;
+    }
+    let e = x.mul_add(s, -p);
+    let r = p.round_ties_even();
+    let d = p - r;
+    let n = if d.abs() == 0.5 && e != 0.0 && (d > 0.0) == (e > 0.0) {
+        r + d.signum()
+    } else {
+        r
+    };
+    Some(n as i64)
 }
 
 /// The largest coordinate (in mm, absolute value) the writers accept: a kilometre is far beyond
@@ -92,6 +138,39 @@ fn arc_pieces(a: &CircularArc, max_sweep: f64) -> impl Iterator<Item = CircularA
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// Rust's own `{:.d}` formatting (core's exact float-to-decimal, Steele & White / Dragon4
+    /// with Grisu), with the negative zero dropped: the reference `fixed` must agree with.
+    fn reference(x: f64, decimals: u32) -> String {
+        let s = format!("{:.*}", decimals as usize, x);
+        match s.strip_prefix('-') {
+            Some(rest) if rest.bytes().all(|b| b == b'0' || b == b'.') => rest.to_string(),
+            _ => s,
+        }
+    }
+
+    #[test]
+    fn fixed_agrees_with_the_standard_formatting_on_ties_and_near_ties() {
+        let mut values = vec![
+            0.0, -0.0, 0.5, 1.5, 2.5, -2.5, 0.125, 0.375, -0.625, 1e6, -1e6,
+        ];
+        let mut rng = crate::testing::Rng::new(0x2545_F491_4F6C_DD1D);
+        for _ in 0..20_000 {
+            let x = (rng.unit() - 0.5) * 2e6 * 10f64.powi(-((rng.next_u64() % 7) as i32));
+            values.push(x);
+            // A decimal tie at 1–6 decimals, and its two neighbouring doubles.
+            let d = 1 + (rng.next_u64() % 6) as i32;
+            let tie = ((x * 10f64.powi(d)).trunc() + 0.5) / 10f64.powi(d);
+            values.extend([tie, tie.next_up(), tie.next_down()]);
+        }
+        for x in values {
+            for d in 0..=8 {
+                assert_eq!(fixed(x, d), reference(x, d), "{x:e} at {d} decimals");
+                let parsed: f64 = reference(x, d).parse().unwrap();
+                assert_eq!(as_written(x, d), parsed, "{x:e} at {d} decimals");
+            }
+        }
+    }
 
     #[test]
     fn fixed_rounds_within_half_a_unit_and_drops_negative_zero() {
