@@ -34,11 +34,12 @@
 //! ≤ √2·h): ≤ 6·√2·h ≈ 8.5·h in all. [`gcode_as_read`] gives the traced geometry exactly, so the
 //! caller measures it.
 
-use std::f64::consts::{FRAC_PI_2, PI};
+use std::f64::consts::PI;
 
 use kurbo::{Line, ParamCurve, Point, Rect, Vec2};
 
-use super::{arc_pieces, as_written, check_segment, fixed, point_as_written, WriteError};
+use super::WriteError;
+use super::{arc_pieces, as_written, check_segment, fixed, point_as_written, push_fixed};
 use super::{MAX_COORDINATE_MM, MAX_DECIMALS};
 use crate::geom::{Contour, Segment};
 use crate::read::gcode::centre_format_arc;
@@ -128,7 +129,7 @@ fn plan(contour: &Contour, d: u32) -> Result<Option<Plan>, WriteError> {
             }
             Segment::Arc(a) => {
                 let clockwise = a.sweep > 0.0;
-                for piece in arc_pieces(a, FRAC_PI_2) {
+                for piece in arc_pieces(a) {
                     let e = pw(piece.eval(1.0));
                     if e == pen {
                         continue;
@@ -223,74 +224,92 @@ pub fn gcode_program(contours: &[Contour], opts: &GcodeOptions) -> Result<String
     let planned = contours.iter().filter(|c| c.start().is_some()).count();
     let n = |x: f64| fixed(x, d);
     let mut out = String::new();
-    let mut line = |s: String| {
-        out.push_str(&s);
+    let line = |out: &mut String, s: &str| {
+        out.push_str(s);
         out.push('\n');
     };
-    line(comment(
-        "ratline G-code: millimetres [G21], absolute [G90], XY plane [G17]",
-    ));
+    line(
+        &mut out,
+        &comment("ratline G-code: millimetres [G21], absolute [G90], XY plane [G17]"),
+    );
     let bbox = contours
         .iter()
         .filter_map(|c| c.bounding_box())
         .reduce(|a, b| a.union(b))
         .map(|b| Rect::new(b.x0, -b.y1, b.x1, -b.y0));
-    line(comment(&match bbox {
-        Some(b) => format!(
-            "bounding box, machine coordinates: X {} to {}, Y {} to {} mm",
-            n(b.x0),
-            n(b.x1),
-            n(b.y0),
-            n(b.y1)
-        ),
-        None => "no contours".to_string(),
-    }));
-    line(comment(&format!(
-        "Z safe {} cut {} mm; feed {} plunge {} mm/min; contours: {}",
-        n(opts.safe_z),
-        n(opts.cut_z),
-        n(opts.feed),
-        n(opts.plunge_rate),
-        planned
-    )));
+    line(
+        &mut out,
+        &comment(&match bbox {
+            Some(b) => format!(
+                "bounding box, machine coordinates: X {} to {}, Y {} to {} mm",
+                n(b.x0),
+                n(b.x1),
+                n(b.y0),
+                n(b.y1)
+            ),
+            None => "no contours".to_string(),
+        }),
+    );
+    line(
+        &mut out,
+        &comment(&format!(
+            "Z safe {} cut {} mm; feed {} plunge {} mm/min; contours: {}",
+            n(opts.safe_z),
+            n(opts.cut_z),
+            n(opts.feed),
+            n(opts.plunge_rate),
+            planned
+        )),
+    );
     for c in CAUTIONS {
-        line(comment(c));
+        line(&mut out, &comment(c));
     }
     for h in &opts.header {
-        line(comment(h));
+        line(&mut out, &comment(h));
     }
-    line("G21 G90 G17".to_string());
+    line(&mut out, "G21 G90 G17");
     let safe = format!("G0 Z{}", n(opts.safe_z));
-    line(safe.clone());
+    line(&mut out, &safe);
     if let Some(rpm) = opts.spindle_rpm {
-        line(format!("M3 S{}", fixed(rpm, 0)));
+        line(&mut out, &format!("M3 S{}", fixed(rpm, 0)));
     }
     for contour in contours {
         // (Planned one contour at a time: the moves of a whole job need not be held at once.)
         let Some(p) = plan(contour, d)? else {
             continue;
         };
-        line(comment(&contour.source.to_string()));
-        line(safe.clone());
-        line(format!("G0 X{} Y{}", n(p.start.x), n(p.start.y)));
-        line(format!("G1 Z{} F{}", n(opts.cut_z), n(opts.plunge_rate)));
+        line(&mut out, &comment(&contour.source.to_string()));
+        line(&mut out, &safe);
+        line(&mut out, &format!("G0 X{} Y{}", n(p.start.x), n(p.start.y)));
+        line(
+            &mut out,
+            &format!("G1 Z{} F{}", n(opts.cut_z), n(opts.plunge_rate)),
+        );
         let mut feed = format!(" F{}", n(opts.feed));
         for m in &p.moves {
             let (w, e, ij) = match *m {
-                Move::Line(e) => ("G1", e, String::new()),
-                Move::Arc(e, ij, cw) => (
-                    if cw { "G2" } else { "G3" },
-                    e,
-                    format!(" I{} J{}", n(ij.x), n(ij.y)),
-                ),
+                Move::Line(e) => ("G1", e, None),
+                Move::Arc(e, ij, cw) => (if cw { "G2" } else { "G3" }, e, Some(ij)),
             };
-            line(format!("{w} X{} Y{}{ij}{feed}", n(e.x), n(e.y)));
+            let word = |out: &mut String, letter: &str, x: f64| {
+                out.push_str(letter);
+                push_fixed(out, x, d);
+            };
+            out.push_str(w);
+            word(&mut out, " X", e.x);
+            word(&mut out, " Y", e.y);
+            if let Some(ij) = ij {
+                word(&mut out, " I", ij.x);
+                word(&mut out, " J", ij.y);
+            }
+            out.push_str(&feed);
+            out.push('\n');
             feed.clear();
         }
-        line(safe.clone());
+        line(&mut out, &safe);
     }
-    line("M5".to_string());
-    line("M2".to_string());
+    line(&mut out, "M5");
+    line(&mut out, "M2");
     Ok(out)
 }
 
@@ -340,7 +359,7 @@ mod tests {
             center: Point::ORIGIN,
             radius: 10.0,
             start_angle: 0.0,
-            sweep: FRAC_PI_2,
+            sweep: std::f64::consts::FRAC_PI_2,
         };
         let prog = gcode_program(&[arc_contour(a)], &GcodeOptions::default()).unwrap();
         assert!(

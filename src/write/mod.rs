@@ -16,6 +16,8 @@ pub mod svg;
 
 pub use error::WriteError;
 
+use std::f64::consts::FRAC_PI_2;
+
 use kurbo::{ParamCurve, Point, Vec2};
 
 use crate::geom::{CircularArc, Segment, Source};
@@ -24,20 +26,37 @@ use crate::geom::{CircularArc, Segment, Source};
 /// The digits are those of Rust's `{:.d}`: the exact binary value rounded to the nearest
 /// multiple of 10⁻ᵈ, ties to even.
 fn fixed(x: f64, decimals: u32) -> String {
+    let mut s = String::new();
+    push_fixed(&mut s, x, decimals);
+    s
+}
+
+/// Append `fixed(x, decimals)` to `out`.
+fn push_fixed(out: &mut String, x: f64, decimals: u32) {
     let Some(n) = scaled(x, decimals) else {
         let s = format!("{:.*}", decimals as usize, x);
-        return match s.strip_prefix('-') {
-            Some(rest) if rest.bytes().all(|b| b == b'0' || b == b'.') => rest.to_string(),
-            _ => s,
-        };
+        match s.strip_prefix('-') {
+            Some(rest) if rest.bytes().all(|b| b == b'0' || b == b'.') => out.push_str(rest),
+            _ => out.push_str(&s),
+        }
+        return;
     };
-    let unit = POW10[decimals as usize] as u64;
-    let (whole, frac) = (n.unsigned_abs() / unit, n.unsigned_abs() % unit);
-    let sign = if n < 0 { "-" } else { "" };
-    if decimals == 0 {
-        format!("{sign}{whole}")
-    } else {
-        format!("{sign}{whole}.{frac:0w$}", w = decimals as usize)
+    if n < 0 {
+        out.push('-');
+    }
+    // The digits of |n|, last first, at least one before the point.
+    let d = decimals as usize;
+    let (mut digits, mut len, mut a) = ([0u8; 24], 0, n.unsigned_abs());
+    while a > 0 || len <= d {
+        digits[len] = b'0' + (a % 10) as u8;
+        a /= 10;
+        len += 1;
+    }
+    for i in (0..len).rev() {
+        out.push(char::from(digits[i]));
+        if i == d && d > 0 {
+            out.push('.');
+        }
     }
 }
 
@@ -129,9 +148,12 @@ pub(crate) fn check_segment(
     Ok(())
 }
 
-/// An arc in `n = ⌈|sweep| / max_sweep⌉` equal pieces (one piece for a zero sweep).
-fn arc_pieces(a: &CircularArc, max_sweep: f64) -> impl Iterator<Item = CircularArc> + '_ {
-    let n = ((a.sweep.abs() / max_sweep) - 1e-9).ceil().max(1.0) as usize;
+/// An arc as both writers write it: in `n = ⌈|sweep| / 90°⌉` equal pieces (one piece for a
+/// zero sweep). A quarter turn at most keeps an SVG arc's flags unambiguous and a G-code arc
+/// clear of the half turn, where the centre format is ill-conditioned (each writer's module
+/// docs).
+pub(crate) fn arc_pieces(a: &CircularArc) -> impl Iterator<Item = CircularArc> + '_ {
+    let n = ((a.sweep.abs() / FRAC_PI_2) - 1e-9).ceil().max(1.0) as usize;
     (0..n).map(move |i| a.subsegment(i as f64 / n as f64..(i + 1) as f64 / n as f64))
 }
 

@@ -24,20 +24,21 @@
 //! it by ≤ 2δ (≤ δ per end) and changes the bulge s = r − √(r² − c²/4) by
 //! ≤ (c/(4√(r² − c²/4)))·2δ + (r/√(r² − c²/4) − 1)·h ≤ δ + 0.42·h. So every point of the piece
 //! moves by ≤ 4·√2·h + 0.42·h < 6.1·h, for any θ ≤ 90°. [`svg_as_read`] gives the exact reread
-//! geometry, so the caller measures rather than trusts this.
+//! geometry, so the caller bounds the rounding of that geometry (`convert`) rather than trusts
+//! this.
 //!
 //! **Ids.** Each path's id is built from its `Source` (element and index), reduced to the ASCII
 //! letters, digits, `-`, `.` and `_` that every XML name allows, and made unique with a `.2`,
 //! `.3`, ... suffix; `data-source` holds the full `Source` text, XML-escaped.
 
 use std::collections::HashSet;
-use std::f64::consts::FRAC_PI_2;
 use std::fmt::Write as _;
 
 use kurbo::{ParamCurve, Point, Rect};
 
 use super::{
-    arc_pieces, as_written, check_segment, fixed, point_as_written, WriteError, MAX_DECIMALS,
+    arc_pieces, as_written, check_segment, fixed, point_as_written, push_fixed, WriteError,
+    MAX_DECIMALS,
 };
 use crate::geom::{
     svg_arc_to_center, CircularArc, Contour, Segment, Source, SvgArcParams, SvgArcShape,
@@ -90,7 +91,7 @@ fn commands(contour: &Contour, decimals: u32) -> Result<Vec<Cmd>, WriteError> {
             Segment::Cubic(c) => cmds.push(Cmd::Cubic(pw(c.p1), pw(c.p2), pw(c.p3))),
             Segment::Arc(a) => {
                 let r = as_written(a.radius, decimals);
-                for piece in arc_pieces(a, FRAC_PI_2) {
+                for piece in arc_pieces(a) {
                     cmds.push(Cmd::Arc(r, a.sweep > 0.0, pw(piece.eval(1.0))));
                 }
             }
@@ -131,10 +132,6 @@ fn validate(opts: &SvgWriteOptions) -> Result<(), WriteError> {
 pub fn svg_document(contours: &[Contour], opts: &SvgWriteOptions) -> Result<String, WriteError> {
     validate(opts)?;
     let d = opts.decimals;
-    let planned: Vec<(&Contour, Vec<Cmd>)> = contours
-        .iter()
-        .map(|c| commands(c, d).map(|cmds| (c, cmds)))
-        .collect::<Result<_, _>>()?;
     let bbox = contours
         .iter()
         .filter_map(|c| c.bounding_box())
@@ -156,37 +153,66 @@ pub fn svg_document(contours: &[Contour], opts: &SvgWriteOptions) -> Result<Stri
     );
     let mut used = HashSet::new();
     let stroke = fixed(opts.stroke_mm, d.max(3));
-    for (contour, cmds) in planned.iter().filter(|(_, cmds)| !cmds.is_empty()) {
-        let _ = writeln!(
+    for contour in contours {
+        // (One contour at a time: the commands of a whole job need not be held at once.)
+        let cmds = commands(contour, d)?;
+        if cmds.is_empty() {
+            continue;
+        }
+        let _ = write!(
             out,
             "  <path id=\"{}\" data-source=\"{}\" fill=\"none\" stroke=\"black\" \
-             stroke-width=\"{stroke}\" d=\"{}\"/>",
+             stroke-width=\"{stroke}\" d=\"",
             unique_id(&contour.source, &mut used),
             escape(&contour.source.to_string()),
-            path_data(cmds, d)
         );
+        push_path_data(&mut out, &cmds, d);
+        out.push_str("\"/>\n");
     }
     out.push_str("</svg>\n");
     Ok(out)
 }
 
-fn path_data(cmds: &[Cmd], d: u32) -> String {
-    let p = |p: Point| format!("{} {}", fixed(p.x, d), fixed(p.y, d));
-    let parts: Vec<String> = cmds
-        .iter()
-        .map(|c| match *c {
-            Cmd::Move(a) => format!("M {}", p(a)),
-            Cmd::Line(a) => format!("L {}", p(a)),
-            Cmd::Quad(a, b) => format!("Q {} {}", p(a), p(b)),
-            Cmd::Cubic(a, b, e) => format!("C {} {} {}", p(a), p(b), p(e)),
+/// Append the path data of `cmds` (commands and numbers separated by single spaces).
+fn push_path_data(out: &mut String, cmds: &[Cmd], d: u32) {
+    let point = |out: &mut String, p: Point| {
+        out.push(' ');
+        push_fixed(out, p.x, d);
+        out.push(' ');
+        push_fixed(out, p.y, d);
+    };
+    for (i, c) in cmds.iter().enumerate() {
+        if i > 0 {
+            out.push(' ');
+        }
+        match *c {
+            Cmd::Move(a) => {
+                out.push('M');
+                point(out, a);
+            }
+            Cmd::Line(a) => {
+                out.push('L');
+                point(out, a);
+            }
+            Cmd::Quad(a, b) => {
+                out.push('Q');
+                point(out, a);
+                point(out, b);
+            }
+            Cmd::Cubic(a, b, e) => {
+                out.push('C');
+                point(out, a);
+                point(out, b);
+                point(out, e);
+            }
             Cmd::Arc(r, sweep, e) => {
                 let r = fixed(r, d);
-                format!("A {r} {r} 0 0 {} {}", u8::from(sweep), p(e))
+                let _ = write!(out, "A {r} {r} 0 0 {}", u8::from(sweep));
+                point(out, e);
             }
-            Cmd::Close => "Z".to_string(),
-        })
-        .collect();
-    parts.join(" ")
+            Cmd::Close => out.push('Z'),
+        }
+    }
 }
 
 /// An XML id from the source's element and index (see the module docs), unique in `used`.
