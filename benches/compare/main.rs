@@ -28,7 +28,7 @@ use clap::{Parser, ValueEnum};
 use kurbo::BezPath;
 use rayon::prelude::*;
 
-use ratline::convert::{fit_outline, FittedOutline};
+use ratline::convert::fit_outline;
 use ratline::fit::{fit, Fitted, Target};
 use ratline::geom::{CircularArc, Contour, Outline, Segment, Tolerance};
 use ratline::measure;
@@ -131,11 +131,16 @@ fn timed<T>(reps: usize, mut job: impl FnMut() -> T, sum: impl Fn(&T) -> f64) ->
         }
         times.push(t.elapsed() / batch);
     }
-    times.sort();
     Timed {
-        median: times[times.len() / 2],
+        median: median(times),
         result,
     }
+}
+
+/// The median of at least one time.
+fn median(mut times: Vec<Duration>) -> Duration {
+    times.sort();
+    times[times.len() / 2]
 }
 
 fn tolerance(mm: f64) -> Tolerance {
@@ -521,30 +526,51 @@ fn parallel_rows(dejavu: &Font, cantarell: &Font, reps: usize) -> Result<Vec<Par
             f.contours.len(),
             target.name()
         );
-        let mut runs: Vec<Timed<FittedOutline>> = Vec::new();
-        for threads in [1, 2] {
-            eprintln!("{job}: fit_outline on {threads} thread(s) ...");
-            let pool = rayon::ThreadPoolBuilder::new()
+        // The two pools take turns, run by run, so that a busy spell of the shared machine
+        // slows both alike rather than one of them.
+        let pools = [1, 2].map(|threads| {
+            rayon::ThreadPoolBuilder::new()
                 .num_threads(threads)
                 .build()
-                .map_err(|e| e.to_string())?;
-            runs.push(pool.install(|| {
-                timed(
-                    reps,
-                    || {
-                        fit_outline(&outline, target, tol, &[], usize::MAX, &|| {})
-                            .expect("no segment limit")
-                    },
-                    |r| r.contours.iter().map(|c| jobs::checksum(&c.segments)).sum(),
-                )
-            }));
+                .map_err(|e| e.to_string())
+        });
+        let [one, two] = match pools {
+            [Ok(a), Ok(b)] => [a, b],
+            [Err(e), _] | [_, Err(e)] => return Err(e),
+        };
+        eprintln!("{job}: fit_outline on 1 and 2 threads, in turn ...");
+        let run = |pool: &rayon::ThreadPool| {
+            let start = Instant::now();
+            let r = pool.install(|| {
+                fit_outline(&outline, target, tol, &[], usize::MAX, &|| {})
+                    .expect("no segment limit")
+            });
+            black_box(
+                r.contours
+                    .iter()
+                    .map(|c| jobs::checksum(&c.segments))
+                    .sum::<f64>(),
+            );
+            (start.elapsed(), r)
+        };
+        let (mut times_one, mut times_two) = (Vec::new(), Vec::new());
+        let (mut result_one, mut result_two) = (None, None);
+        for _ in 0..reps.max(1) {
+            let (t, r) = run(&one);
+            times_one.push(t);
+            result_one = Some(r);
+            let (t, r) = run(&two);
+            times_two.push(t);
+            result_two = Some(r);
         }
+        let (Some(r1), Some(r2)) = (result_one, result_two) else {
+            return Err("no parallel run".to_string());
+        };
         out.push(Parallel {
             job,
-            one: runs[0].median,
-            two: runs[1].median,
-            identical: runs[0].result.contours == runs[1].result.contours
-                && runs[0].result.reports == runs[1].result.reports,
+            one: median(times_one),
+            two: median(times_two),
+            identical: r1.contours == r2.contours && r1.reports == r2.reports,
         });
     }
     Ok(out)
