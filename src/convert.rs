@@ -18,7 +18,7 @@
 //! polynomials are non-negative and sum to 1; Farin, *Curves and Surfaces for CAGD*, 5th ed.,
 //! §4.3), so |Fᵢ(t) − Rᵢ(t)| ≤ maxₖ |Pₖ − P′ₖ| at every t, which bounds both directed
 //! distances. An arc is paired piece by piece as the writers split it (at most 90° each), and a
-//! pair of arc pieces or conics is bounded the same way through their rational form, plus a
+//! pair of arc pieces is bounded the same way through their rational form (conics), plus a
 //! term for the change of weight (`conic_moved`); where that bound is above the 1% of the
 //! tolerance the rounding is written to stay near, or the kinds differ, the pair is measured.
 //! Where R does not pair up (a writer dropped a segment), rounding is measured window by
@@ -181,8 +181,9 @@ impl From<write::WriteError> for JobError {
 }
 
 /// A certified bound on d_H(F, R) pair by pair (see the module docs), with F's arcs in the
-/// pieces the writers write; `None` when R does not pair up with them. An arc or conic term
-/// whose closed form is above `measure_above` is measured instead (that bound can be loose).
+/// pieces the writers write; `None` when R does not pair up with them. An arc term whose
+/// closed form is above `measure_above` is measured instead (that bound can be loose). (No
+/// writer holds conics: the caller fits them first.)
 fn paired_hausdorff(f: &[Segment], r: &[Segment], slack: f64, measure_above: f64) -> Option<f64> {
     let pieces: Cow<[Segment]> = if f.iter().any(|s| matches!(s, Segment::Arc(_))) {
         let mut v = Vec::with_capacity(r.len());
@@ -210,9 +211,6 @@ fn paired_hausdorff(f: &[Segment], r: &[Segment], slack: f64, measure_above: f64
                 moved(&[a.p0, a.p1, a.p2, a.p3], &[b.p0, b.p1, b.p2, b.p3])
             }
             (Segment::Arc(p), Segment::Arc(q)) => arc_moved(p, q)
-                .filter(|&d| d <= measure_above)
-                .unwrap_or_else(|| measured(a, b)),
-            (Segment::Conic(p), Segment::Conic(q)) => conic_moved(p, q)
                 .filter(|&d| d <= measure_above)
                 .unwrap_or_else(|| measured(a, b)),
             // (A piece the writer turned into another kind, say a tiny arc into a line.)
@@ -254,8 +252,8 @@ fn conic_moved(p: &Conic, q: &Conic) -> Option<f64> {
 }
 
 /// [`conic_moved`] for two arc pieces of at most 90° (one conic each), plus an allowance for
-/// the rounding in their conics' control points (a few ulps of the coordinates involved,
-/// 450 ε here).
+/// the rounding in their conics' control points and in projecting them (a few ulps of the
+/// coordinates involved; 450 ε here).
 fn arc_moved(a: &CircularArc, b: &CircularArc) -> Option<f64> {
     let ([p], [q]) = (&a.to_conics()[..], &b.to_conics()[..]) else {
         return None;
