@@ -150,17 +150,14 @@ fn contour_d(c: &Contour) -> String {
             }
             Segment::Conic(k) => conic_d(k, &mut d),
             Segment::Arc(a) => {
-                // Pieces of at most 90°, so the large-arc flag is always 0 and a full circle
-                // (equal end points, which SVG would omit) still draws.
-                let n = (a.sweep.abs() / std::f64::consts::FRAC_PI_2 - 1e-9)
-                    .ceil()
-                    .max(1.0) as usize;
+                // The writers' pieces of at most 90°, so the large-arc flag is always 0 and a
+                // full circle (equal end points, which SVG would omit) still draws.
                 let sweep = u8::from(a.sweep > 0.0);
-                for i in 1..=n {
+                for piece in super::arc_pieces(a) {
                     let _ = write!(
                         d,
                         " A{r} {r} 0 0 {sweep} {}",
-                        pt(a.eval(i as f64 / n as f64)),
+                        pt(piece.eval(1.0)),
                         r = num(a.radius)
                     );
                 }
