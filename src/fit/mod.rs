@@ -15,7 +15,8 @@
 //! target and become exact cubics (degree elevation) for the cubic one.
 //!
 //! For the cubic target, consecutive cubic pieces that meet smoothly are then merged into one
-//! cubic wherever it is certified within the tolerance (`merge.rs`).
+//! cubic wherever it is certified within the tolerance (`merge.rs`: a fit towards the smallest
+//! largest distance, certified through the fit's own nearest-point parameters).
 //!
 //! Every approximated piece is certified against the exact source interval it replaces: by a
 //! closed form where one exists (one line over a curve that is a graph over it, `lines.rs`; a

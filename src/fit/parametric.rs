@@ -1,4 +1,6 @@
-//! The parametric distance between a polynomial Bézier and the quadratic that replaces it.
+//! The parametric distance between a polynomial Bézier and the quadratic that replaces it,
+//! and between any two cubics run over the same parameter (`merge.rs` bounds a merged cubic
+//! interval by interval with it).
 //!
 //! Run two curves A and B over the same parameter: each point A(t) has the point B(t) of the
 //! other curve within max_t |A(t) − B(t)|, and each B(t) has A(t), so that maximum bounds the
@@ -66,28 +68,50 @@ impl Interval {
     }
 }
 
-/// The difference A − B of a quadratic or cubic source and a quadratic, as a cubic's control
-/// points, with A; `None` for other sources.
-fn difference(source: &Segment, q: &QuadBez) -> Option<(CubicBez, [Vec2; 4])> {
-    let a: CubicBez = match source {
-        Segment::Cubic(c) => *c,
-        Segment::Quad(s) => s.raise(),
-        _ => return None,
-    };
-    let b = q.raise();
-    Some((a, [a.p0 - b.p0, a.p1 - b.p1, a.p2 - b.p2, a.p3 - b.p3]))
+/// A line, quadratic or cubic as a cubic (degree elevation); `None` for a conic or an arc.
+pub fn as_cubic(s: &Segment) -> Option<CubicBez> {
+    match s {
+        Segment::Line(l) => Some(QuadBez::new(l.p0, l.p0.midpoint(l.p1), l.p1).raise()),
+        Segment::Quad(q) => Some(q.raise()),
+        Segment::Cubic(c) => Some(*c),
+        Segment::Conic(_) | Segment::Arc(_) => None,
+    }
+}
+
+/// The difference A − B of two cubics as a cubic's control points.
+fn difference(a: &CubicBez, b: &CubicBez) -> [Vec2; 4] {
+    [a.p0 - b.p0, a.p1 - b.p1, a.p2 - b.p2, a.p3 - b.p3]
+}
+
+/// The largest coordinate norm among the control points, for the rounding allowance.
+fn scale(points: &[kurbo::Point]) -> f64 {
+    points
+        .iter()
+        .map(|p| p.to_vec2().hypot())
+        .fold(0.0, f64::max)
+}
+
+/// The parametric distance max_t |A(t) − B(t)| of two cubics run over the same parameter,
+/// bounded from above within `slack` of a value reached, with rounding allowance (a certified
+/// bound on their Hausdorff distance, module docs), and the t where the largest value is
+/// reached.
+pub fn cubic_pair_bound(a: &CubicBez, b: &CubicBez, slack: f64) -> (f64, f64) {
+    let (bound, t) = refined_bound(difference(a, b), slack);
+    let scale = scale(&[a.p0, a.p1, a.p2, a.p3, b.p0, b.p1, b.p2, b.p3]);
+    (bound + ROUNDING * scale, t)
 }
 
 /// A certified bound on the Hausdorff distance between a quadratic or cubic `source` and the
 /// quadratic `q` with the same parameter range, within `slack` of the parametric distance;
 /// `None` for other sources.
 pub fn quad_deviation(source: &Segment, q: &QuadBez, slack: f64) -> Option<Deviation> {
-    let (a, d) = difference(source, q)?;
+    let a = match source {
+        Segment::Quad(_) | Segment::Cubic(_) => as_cubic(source)?,
+        _ => return None,
+    };
+    let d = difference(&a, &q.raise());
     let (bound, best_t) = closed_bound(&d, slack).unwrap_or_else(|| refined_bound(d, slack));
-    let scale = [a.p0, a.p1, a.p2, a.p3, q.p1]
-        .iter()
-        .map(|p| p.to_vec2().hypot())
-        .fold(0.0, f64::max);
+    let scale = scale(&[a.p0, a.p1, a.p2, a.p3, q.p1]);
     let at = a.eval(best_t);
     let (sampled, _) = Segment::Quad(*q).nearest(at);
     Some(Deviation {
