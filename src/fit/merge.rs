@@ -12,10 +12,12 @@
 //! stationary in it there); minimising that "tangent distance" converges much faster than
 //! alternating least squares and reparametrisation (Wang, Pottmann & Liu, "Fitting B-spline
 //! curves to point clouds by curvature-based squared distance minimization", ACM TOG 25(2),
-//! 2006; citation from memory). The squares are weighted, each weight multiplied every round by
-//! the sample's distance: Lawson's algorithm, whose weights lead a linear least-squares problem
-//! to its minimax solution (Rice & Usow, "The Lawson algorithm and extensions", Math. Comp. 22,
-//! 1968; citation from memory). The round with the smallest largest distance is kept. The
+//! 2006; citation from memory); a step that leaves the fit worse is halved, from the best so
+//! far. Once the steps stop gaining, the squares are weighted, each weight multiplied every
+//! round by the sample's distance: Lawson's algorithm, whose weights lead a linear
+//! least-squares problem to its minimax solution (Rice & Usow, "The Lawson algorithm and
+//! extensions", Math. Comp. 22, 1968; citation from memory). The round with the smallest
+//! largest distance is kept. The
 //! largest distance has several local minima in (α, β); a fit that ends within a few
 //! tolerances is run again from a second start, the cubic whose end derivatives match the
 //! source's (Hermite).
@@ -67,7 +69,7 @@ fn smooth_join(a: &View, b: &View) -> bool {
     lu > 0.0 && lv > 0.0 && u.dot(v) >= SMOOTH_COS * lu * lv && a.0.to.segment <= b.0.from.segment
 }
 
-/// Rounds of the fit after the least-squares start.
+/// Rounds of the fit after its start.
 const FIT_ROUNDS: usize = 8;
 
 /// The fit stops once every sample is this close to the cubic, as a share of the tolerance
