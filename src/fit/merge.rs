@@ -35,6 +35,7 @@
 
 use kurbo::{CubicBez, ParamCurve, Point, Vec2};
 
+use super::power::PowerPiece;
 use super::{parametric, with_segments, Piece, CERT_SLACK};
 use crate::geom::Segment;
 use crate::measure::{self, Deviation};
@@ -175,7 +176,7 @@ fn fit_cubic(
             break;
         }
         let c = CubicBez::new(p0, p0 + alpha * t0, p3 - beta * t1, p3);
-        let projector = Projector::new(&c);
+        let power = power_form(&c);
         trial.copy_from_slice(&knots);
         let mut normal = Normal::default();
         let mut worst: f64 = 0.0;
@@ -185,9 +186,9 @@ fn fit_cubic(
             .zip(&weights)
             .zip(&mut distances)
         {
-            *t = projector.nearest_from(*q, *t, 2);
-            let [point, v, _] = projector.jets(*t);
-            let e = point - q.to_vec2();
+            *t = power.nearest_from(*q, *t, 2).unwrap_or(*t);
+            let (point, v) = power.point_velocity(*t);
+            let e = point - *q;
             *dist = e.hypot();
             worst = worst.max(*dist);
             let speed = v.hypot();
@@ -359,7 +360,7 @@ fn knot_bound(
         i if i == n => 1.0,
         i => knots[i],
     };
-    let projector = Projector::new(cubic);
+    let power = power_form(cubic);
     let (mut bound, mut at) = (0.0, cubic.p0);
     for (k, s) in source.iter().enumerate() {
         let piece = parametric::as_cubic(s)?;
@@ -372,7 +373,8 @@ fn knot_bound(
                 let (d, t) = parametric::cubic_pair_bound(&a, &cubic.subsegment(u0..u1), slack);
                 if d > goal && depth < KNOT_SPLITS {
                     let sm = 0.5 * (s0 + s1);
-                    let um = projector.nearest_from(piece.eval(sm), 0.5 * (u0 + u1), 3);
+                    let mid = 0.5 * (u0 + u1);
+                    let um = power.nearest_from(piece.eval(sm), mid, 3).unwrap_or(mid);
                     stack.push(([s0, sm], [u0, um], depth + 1));
                     stack.push(([sm, s1], [um, u1], depth + 1));
                 } else if d > bound {
@@ -389,43 +391,12 @@ fn knot_bound(
     })
 }
 
-/// A cubic in power form C(u) = a₀ + a₁u + a₂u² + a₃u³, for Newton projections.
-struct Projector([Vec2; 4]);
-
-impl Projector {
-    fn new(c: &CubicBez) -> Projector {
-        let [p0, p1, p2, p3] = [c.p0, c.p1, c.p2, c.p3].map(Point::to_vec2);
-        Projector([
-            p0,
-            3.0 * (p1 - p0),
-            3.0 * (p0 - 2.0 * p1 + p2),
-            p3 - 3.0 * p2 + 3.0 * p1 - p0,
-        ])
-    }
-
-    /// C(u), C′(u) and C″(u).
-    fn jets(&self, u: f64) -> [Vec2; 3] {
-        let [a0, a1, a2, a3] = self.0;
-        [
-            a0 + u * (a1 + u * (a2 + u * a3)),
-            a1 + u * (2.0 * a2 + u * 3.0 * a3),
-            2.0 * a2 + u * 6.0 * a3,
-        ]
-    }
-
-    /// The parameter of a point of the cubic near `q`, by `steps` Newton steps on |C − q|²
-    /// from `u`, kept in [0, 1] (a local answer: any parameter keeps the bounds above
-    /// rigorous).
-    fn nearest_from(&self, q: Point, mut u: f64, steps: usize) -> f64 {
-        for _ in 0..steps {
-            let [c, v, a] = self.jets(u);
-            let e = c - q.to_vec2();
-            let den = v.dot(v) + e.dot(a);
-            if den > 0.0 {
-                u = (u - e.dot(v) / den).clamp(0.0, 1.0);
-            }
-        }
-        u
+/// The cubic in power form, for Newton projections onto it (any parameter they give keeps the
+/// bounds above rigorous).
+fn power_form(c: &CubicBez) -> PowerPiece {
+    match PowerPiece::of(&Segment::Cubic(*c), 0.0, 1.0) {
+        Some(p) => p,
+        None => unreachable!("a cubic has a power form"),
     }
 }
 

@@ -89,6 +89,23 @@ impl PowerPiece {
         (n, [w0 + t * (w1 + t * w2), w1 + 2.0 * t * w2, 2.0 * w2])
     }
 
+    /// The parameter of a point near `q`, by `steps` Newton steps on |C − q|² from t, kept in
+    /// [t0, t1] (a local answer). For a polynomial piece (W = 1); `None` for a conic.
+    pub fn nearest_from(&self, q: Point, mut t: f64, steps: usize) -> Option<f64> {
+        if !self.is_polynomial() {
+            return None;
+        }
+        for _ in 0..steps {
+            let ([c, v, a], _) = self.jets(t);
+            let e = c - q.to_vec2();
+            let den = v.dot(v) + e.dot(a);
+            if den > 0.0 {
+                t = (t - e.dot(v) / den).clamp(self.t0, self.t1);
+            }
+        }
+        Some(t)
+    }
+
     /// The point and the velocity C′ at t.
     pub fn point_velocity(&self, t: f64) -> (Point, Vec2) {
         let ([n, d, _], [w, dw, _]) = self.jets(t);
