@@ -14,8 +14,9 @@
 //! its span (its offset is capped by the curve's distance from that line), so at an extremum the
 //! drawing's extent is kept exactly. Between two such
 //! anchors the curve is one *span*: a run of source pieces, joined smoothly and all turning the
-//! same way. Each span is split greedily, every line nearly as long as its certified deviation
-//! allows (within the search's window), the last one ending on the anchor. A span that does not
+//! same way. Each span is split greedily, every line as long as the local curvature predicts
+//! for the goal and kept once its certified deviation is within it (shortened and planned
+//! again where it is not), the last one ending on the anchor. A span that does not
 //! turn (a straight curve) keeps its vertices on the curve (d = 0).
 //!
 //! Every line is certified by the exact closed form of `lines.rs` (or by `measure` where the
@@ -71,10 +72,12 @@ impl Part {
         (s.eval(t), s.tangent_at(t))
     }
 
-    fn normal_acceleration(&self, segs: &[Segment], t: f64) -> f64 {
+    /// The parameter step over which the curve bulges by about `bulge` (see
+    /// [`PowerPiece::bulge_step`]).
+    fn bulge_step(&self, segs: &[Segment], t: f64, bulge: f64) -> f64 {
         match &self.power {
-            Some(p) => p.normal_acceleration(t),
-            None => segs[self.index].normal_acceleration_at(t),
+            Some(p) => p.bulge_step(t, bulge),
+            None => (8.0 * bulge / segs[self.index].normal_acceleration_at(t).abs()).sqrt(),
         }
     }
 
@@ -240,9 +243,10 @@ impl Span<'_> {
     /// predicted at `a` for the first line.
     fn guess(&self, segs: &[Segment], a: f64, bulge: f64, previous: Option<f64>) -> f64 {
         let (p, t) = self.locate(a);
-        let step_at = |t: f64| (8.0 * bulge / p.normal_acceleration(segs, t).abs()).sqrt();
-        let ahead = previous.map_or_else(|| step_at(t), |h| h * (p.t1 - p.t0));
-        let h = step_at((t + 0.5 * ahead).min(p.t1)) / (p.t1 - p.t0);
+        // (A product rather than a quotient: the reciprocal does not wait on the step.)
+        let per_t = (p.t1 - p.t0).recip();
+        let ahead = previous.map_or_else(|| p.bulge_step(segs, t, bulge), |h| h * (p.t1 - p.t0));
+        let h = p.bulge_step(segs, (t + 0.5 * ahead).min(p.t1), bulge) * per_t;
         if h.is_finite() && h > 0.0 {
             h
         } else {
@@ -292,15 +296,36 @@ fn aimed_bulge(from_curve: bool, g: f64, d: f64) -> f64 {
     (1.0 - 0.5 * SEARCH_WINDOW) * s
 }
 
+/// Lines planned ahead of their certification (see [`fit_span`]).
+const PLAN_AHEAD: usize = 8;
+
+/// A line that missed its goal is planned again, shorter by a power of its excess error e / s
+/// (s the bulge aimed at, a share below it): first by the fourth root, which most often lands
+/// just under the goal, then by the square root (the square law of the spread); after that it
+/// is searched for. Measured at 0.01 mm: DejaVu Sans took 43,722 retries and 2 searches for
+/// 536,893 lines, the 100,000 random arcs 379,178 retries and 278 searches for 7.3 million
+/// (0.1% and 0.8% more lines than a search for every line gave; the square root alone left
+/// 4.6% of the arcs' lines below 0.8 of the goal).
+const RETRY_ROOTS: [f64; 2] = [0.25, 0.5];
+
+/// The share of the aimed bulge a retried line aims at.
+const RETRY_SHARE: f64 = 0.98;
+
 /// Fit one span with lines, vertices `offset` outside the curve except at its two ends.
 ///
-/// Each line is searched for on the curve's spread across it (max y − min y in the line's
-/// frame), which grows with the square of the line's length: a line between offset vertices
-/// may bulge by the goal plus the offset. A line whose certified bound is over the goal counts
-/// as over it, scaled to the same goal (the bound decides the first line, which starts on the
-/// curve and tilts towards the offset vertex). The search starts from the
-/// length the local curvature predicts ([`Span::guess`]) and settles within its window, so most
-/// lines cost one or two evaluations of the closed form.
+/// Each line is measured on the curve's spread across it (max y − min y in the line's frame),
+/// which grows with the square of the line's length: a line between offset vertices may bulge
+/// by the goal plus the offset. A line whose certified bound is over the goal counts as over
+/// it, scaled to the same goal (the bound decides the first line, which starts on the curve
+/// and tilts towards the offset vertex).
+///
+/// The lines are planned a few at a time, each as long as the local curvature predicts
+/// ([`Span::guess`]), and then certified in order. Planning first keeps the certifications out
+/// of the chain of computations from one line's end to the next (each needs only its two
+/// planned vertices), so the processor can overlap them. A planned line is kept when it is
+/// within the goal, however far below it. The first that misses drops the rest of its plan
+/// and is planned again shorter ([`RETRY_ROOTS`]), and searched for ([`search_end`]) if that
+/// misses too.
 /// `source` is scratch space for the source under each line.
 fn fit_span(
     segs: &[Segment],
@@ -318,9 +343,9 @@ fn fit_span(
     };
     let spread_goal = goal + offset;
     let anchors = [span.point_normal(segs, 0.0), span.point_normal(segs, end)];
-    let mut line_to = |a: f64, va: Point, b: f64| {
-        let d = if b >= end { 0.0 } else { offset };
-        let line = Line::new(va, span.vertex(segs, &anchors, b, d));
+    let vertex = |b: f64| span.vertex(segs, &anchors, b, if b >= end { 0.0 } else { offset });
+    let mut line_from = |a: f64, va: Point, b: f64, vb: Point| {
+        let line = Line::new(va, vb);
         let one;
         let pieces = match span.single_piece(a, b) {
             Some(p) => {
@@ -335,31 +360,86 @@ fn fit_span(
         };
         (line, lines::line_deviation_and_spread(pieces, line))
     };
+    // The error the search and the plan compare with the spread goal.
+    let error = |found: &Option<(Deviation, f64)>| match found {
+        Some((d, s)) if d.bound <= goal => *s,
+        Some((d, s)) => s.max(d.bound / goal * spread_goal),
+        None => f64::INFINITY,
+    };
+    // A line never ends a hair before a part's end: the sliver left over would be a piece too
+    // short to evaluate reliably.
+    let snap = |a: f64, b: f64| {
+        let k = floor_index(b + 0.5) as f64;
+        if (b - k).abs() < SAME_T && k > a {
+            k.min(end)
+        } else {
+            b.min(end)
+        }
+    };
+    let guess = |a: f64, previous: Option<f64>| {
+        span.guess(segs, a, aimed_bulge(a == 0.0, goal, offset), previous)
+    };
     let mut a = 0.0;
     let mut previous = None;
     let mut va = span.vertex(segs, &anchors, 0.0, 0.0);
-    while a < end {
-        // A line never ends a hair before a part's end: the sliver left over would be a
-        // piece too short to evaluate reliably.
-        let snap = |b: f64| {
-            let k = floor_index(b + 0.5) as f64;
-            if (b - k).abs() < SAME_T && k > a {
-                k.min(end)
-            } else {
-                b.min(end)
-            }
-        };
-        let guess = span.guess(segs, a, aimed_bulge(a == 0.0, goal, offset), previous);
-        let (b, (mut line, mut found)) = search_end(a, end, guess, spread_goal, |b| {
-            let (line, found) = line_to(a, va, snap(b));
-            let e = match found {
-                Some((d, s)) if d.bound <= goal => s,
-                Some((d, s)) => s.max(d.bound / goal * spread_goal),
-                None => f64::INFINITY,
-            };
-            (e, (line, found))
+    let mut plan: ArrayVec<(f64, Point), PLAN_AHEAD> = ArrayVec::new();
+    let source_of = |a: f64, b: f64| {
+        let mut pieces = Vec::new();
+        span.each_part(a, b, |p, t0, t1| {
+            pieces.push(segs[p.index].subsegment(t0, t1))
         });
-        let mut b = snap(b);
+        pieces
+    };
+    // The length of the first planned line after a miss, and how many misses in a row.
+    let mut retry: Option<f64> = None;
+    let mut retries = 0;
+    while a < end {
+        plan.clear();
+        let (mut s, mut h) = (a, previous);
+        while !plan.is_full() && s < end {
+            let step = match retry.filter(|_| s == a) {
+                Some(step) => step,
+                None => guess(s, h),
+            };
+            let b = snap(s, s + step);
+            plan.push((b, vertex(b)));
+            (s, h) = (b, Some(b - s));
+        }
+        let mut missed = None;
+        for &(b, vb) in &plan {
+            let (line, found) = line_from(a, va, b, vb);
+            match found {
+                Some((d, _)) if d.bound <= tol && error(&found) <= spread_goal => {
+                    out.push(Draft {
+                        out: super::one(Segment::Line(line)),
+                        from: span.at(a),
+                        to: span.at(b),
+                        deviation: d,
+                    })?;
+                    (previous, a, va, retry, retries) = (Some(b - a), b, vb, None, 0);
+                }
+                _ => {
+                    missed = Some((b - a, error(&found)));
+                    break;
+                }
+            }
+        }
+        let Some((h, e)) = missed else {
+            continue;
+        };
+        if let Some(&root) = RETRY_ROOTS.get(retries).filter(|_| e.is_finite()) {
+            retries += 1;
+            retry = Some(h * (aimed_bulge(false, goal, offset) / e * RETRY_SHARE).powf(root));
+            continue;
+        }
+        retries = 0;
+        retry = None;
+        let (b, (mut line, mut found)) = search_end(a, end, guess(a, previous), spread_goal, |b| {
+            let b = snap(a, b);
+            let found = line_from(a, va, b, vertex(b));
+            (error(&found.1), found)
+        });
+        let mut b = snap(a, b);
         let deviation = loop {
             match found {
                 Some((d, _)) if d.bound <= tol => break d,
@@ -367,17 +447,13 @@ fn fit_span(
                     // No line this short has a closed form: one line to the span's end,
                     // measured as it is (and reported if over the tolerance).
                     b = end;
-                    line = line_to(a, va, b).0;
-                    let mut source = Vec::new();
-                    span.each_part(a, b, |p, t0, t1| {
-                        source.push(segs[p.index].subsegment(t0, t1));
-                    });
+                    line = Line::new(va, vertex(b));
                     let out = [Segment::Line(line)];
-                    break measure::hausdorff_within(&source, &out, CERT_SLACK * tol, tol);
+                    break measure::hausdorff_within(&source_of(a, b), &out, CERT_SLACK * tol, tol);
                 }
                 _ => {
-                    b = snap(a + 0.8 * (b - a));
-                    (line, found) = line_to(a, va, b);
+                    b = snap(a, a + 0.8 * (b - a));
+                    (line, found) = line_from(a, va, b, vertex(b));
                 }
             }
         };
@@ -387,9 +463,7 @@ fn fit_span(
             to: span.at(b),
             deviation,
         })?;
-        previous = Some(b - a);
-        a = b;
-        va = line.p1;
+        (previous, a, va) = (Some(b - a), b, line.p1);
     }
     Ok(())
 }
@@ -404,9 +478,7 @@ fn expected_lines(segs: &[Segment], parts: &[Part], bulge: f64) -> usize {
     let lines: f64 = parts
         .iter()
         .map(|p| {
-            let n = p.normal_acceleration(segs, 0.5 * (p.t0 + p.t1)).abs();
-            let step = (8.0 * bulge / n).sqrt();
-            let lines = (p.t1 - p.t0) / step;
+            let lines = (p.t1 - p.t0) / p.bulge_step(segs, 0.5 * (p.t0 + p.t1), bulge);
             if lines.is_finite() {
                 lines
             } else {
