@@ -254,31 +254,43 @@ impl Span<'_> {
         }
     }
 
-    /// The point at span position σ and the curve's outward unit normal there.
-    fn point_normal(&self, segs: &[Segment], sigma: f64) -> Anchor {
+    /// The point at span position σ and the curve's outward unit normal there, and the source
+    /// position.
+    fn point_normal(&self, segs: &[Segment], sigma: f64) -> (Anchor, At) {
         let (p, t) = self.locate(sigma);
         let (point, tangent) = p.point_tangent(segs, t);
-        (point, tangent.map(|t| self.turn * Vec2::new(t.y, -t.x)))
+        let at = At {
+            segment: p.index,
+            t,
+        };
+        (
+            (point, tangent.map(|t| self.turn * Vec2::new(t.y, -t.x))),
+            at,
+        )
     }
 
     /// The vertex at span position σ: on the curve, or up to `d` outside it, but never past
     /// the tangent lines at the span's two anchors. At an x or y extremum that tangent line is
     /// the drawing's extent, so the lines never reach beyond it.
     /// `anchors` are [`Span::point_normal`] at the span's two ends.
-    fn vertex(&self, segs: &[Segment], anchors: &[Anchor; 2], sigma: f64, d: f64) -> Point {
-        let (p, normal) = self.point_normal(segs, sigma);
+    /// Returned with the source position at σ.
+    fn vertex(&self, segs: &[Segment], anchors: &[Anchor; 2], sigma: f64, d: f64) -> (Point, At) {
+        let ((p, normal), at) = self.point_normal(segs, sigma);
         let Some(n) = normal.filter(|_| d > 0.0) else {
-            return p;
+            return (p, at);
         };
-        let d = anchors
-            .iter()
-            .filter_map(|&(c, na)| {
-                let na = na?;
-                let cos = n.dot(na);
-                (cos > 0.0).then(|| (c - p).dot(na).max(0.0) / cos)
-            })
-            .fold(d, f64::min);
-        p + d * n
+        // The largest offset e ≤ d with (p + e·n − c)·na ≤ 0 for both anchors c (normal na):
+        // e ≤ (c − p)·na / cos, cos = n·na > 0, divided only where it binds.
+        let mut e = d;
+        for &(c, na) in anchors {
+            if let Some(na) = na {
+                let (cos, room) = (n.dot(na), (c - p).dot(na).max(0.0));
+                if cos > 0.0 && room < e * cos {
+                    e = room / cos;
+                }
+            }
+        }
+        (p + e * n, at)
     }
 }
 
@@ -342,7 +354,10 @@ fn fit_span(
         OFFSET_SHARE * goal
     };
     let spread_goal = goal + offset;
-    let anchors = [span.point_normal(segs, 0.0), span.point_normal(segs, end)];
+    let anchors = [
+        span.point_normal(segs, 0.0).0,
+        span.point_normal(segs, end).0,
+    ];
     let vertex = |b: f64| span.vertex(segs, &anchors, b, if b >= end { 0.0 } else { offset });
     let mut line_from = |a: f64, va: Point, b: f64, vb: Point| {
         let line = Line::new(va, vb);
@@ -381,8 +396,9 @@ fn fit_span(
     };
     let mut a = 0.0;
     let mut previous = None;
-    let mut va = span.vertex(segs, &anchors, 0.0, 0.0);
-    let mut plan: ArrayVec<(f64, Point), PLAN_AHEAD> = ArrayVec::new();
+    // The current line's start: span position, vertex and source position.
+    let (mut va, mut from) = span.vertex(segs, &anchors, 0.0, 0.0);
+    let mut plan: ArrayVec<(f64, Point, At), PLAN_AHEAD> = ArrayVec::new();
     let source_of = |a: f64, b: f64| {
         let mut pieces = Vec::new();
         span.each_part(a, b, |p, t0, t1| {
@@ -402,21 +418,22 @@ fn fit_span(
                 None => guess(s, h),
             };
             let b = snap(s, s + step);
-            plan.push((b, vertex(b)));
+            let (vb, to) = vertex(b);
+            plan.push((b, vb, to));
             (s, h) = (b, Some(b - s));
         }
         let mut missed = None;
-        for &(b, vb) in &plan {
+        for &(b, vb, to) in &plan {
             let (line, found) = line_from(a, va, b, vb);
             match found {
                 Some((d, _)) if d.bound <= tol && error(&found) <= spread_goal => {
                     out.push(Draft {
                         out: super::one(Segment::Line(line)),
-                        from: span.at(a),
-                        to: span.at(b),
+                        from,
+                        to,
                         deviation: d,
                     })?;
-                    (previous, a, va, retry, retries) = (Some(b - a), b, vb, None, 0);
+                    (previous, a, va, from, retry, retries) = (Some(b - a), b, vb, to, None, 0);
                 }
                 _ => {
                     missed = Some((b - a, error(&found)));
@@ -436,7 +453,7 @@ fn fit_span(
         retry = None;
         let (b, (mut line, mut found)) = search_end(a, end, guess(a, previous), spread_goal, |b| {
             let b = snap(a, b);
-            let found = line_from(a, va, b, vertex(b));
+            let found = line_from(a, va, b, vertex(b).0);
             (error(&found.1), found)
         });
         let mut b = snap(a, b);
@@ -447,23 +464,24 @@ fn fit_span(
                     // No line this short has a closed form: one line to the span's end,
                     // measured as it is (and reported if over the tolerance).
                     b = end;
-                    line = Line::new(va, vertex(b));
+                    line = Line::new(va, vertex(b).0);
                     let out = [Segment::Line(line)];
                     break measure::hausdorff_within(&source_of(a, b), &out, CERT_SLACK * tol, tol);
                 }
                 _ => {
                     b = snap(a, a + 0.8 * (b - a));
-                    (line, found) = line_from(a, va, b, vertex(b));
+                    (line, found) = line_from(a, va, b, vertex(b).0);
                 }
             }
         };
+        let to = span.at(b);
         out.push(Draft {
             out: super::one(Segment::Line(line)),
-            from: span.at(a),
-            to: span.at(b),
+            from,
+            to,
             deviation,
         })?;
-        (previous, a, va) = (Some(b - a), b, line.p1);
+        (previous, a, va, from) = (Some(b - a), b, line.p1, to);
     }
     Ok(())
 }
