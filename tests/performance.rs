@@ -238,6 +238,31 @@ fn random_arcs_lines_at_most_four_fifths_of_kurbo() {
     );
 }
 
+#[test]
+fn random_arcs_that_once_reached_a_dead_end_fit() {
+    // Arcs of the 100,000 of the bench whose lines once reached a vertex near an extremum from
+    // which no line had a closed-form bound within the tolerance (the bound then added the
+    // overhang to max|y|): each fits within the tolerance, certified and by the dense check.
+    let arcs = jobs::random_svg_arcs(51_000, jobs::ARC_SEED);
+    for i in [
+        1100, 2237, 9863, 11020, 12265, 15398, 29641, 37559, 41707, 41830, 50696,
+    ] {
+        let Some(c) = jobs::ratline_arc(&arcs[i], i) else {
+            panic!("arc {i} is an arc");
+        };
+        let f = fit(&c, Target::Lines, tol());
+        assert!(f.deviation.bound <= TOL, "arc {i}: {:?}", f.deviation);
+        let k = jobs::kurbo_arc(&arcs[i]).expect("kurbo reads it too");
+        let (samples, reference) = dense::arc_reference(&k);
+        let d = dense::dense(
+            &samples,
+            &reference,
+            &Set::from_segments(&f.contour.segments),
+        );
+        assert!(d <= TOL, "arc {i}: dense check {d} mm > {TOL} mm");
+    }
+}
+
 const RADII: [f64; 5] = [0.5, 1.0, 10.0, 100.0, 400.0];
 const CIRCLE_TOLS: [f64; 2] = [0.01, 0.001];
 

@@ -3,13 +3,14 @@
 //! Write the curve in the line's frame: x(t) = (C(t) − V0)·u along the line from V0 to V1 (length
 //! L, unit direction u), y(t) = (C(t) − V0)·n across it (n = u turned 90°). When x(t) is
 //! non-decreasing (the run is a graph over the line) and runs from x₀ to x₁:
-//! - a curve point with x in [0, L] is |y| from the line, one with x < 0 at most |x₀| + |y| from
-//!   V0 (and likewise past L), so the curve is within max|y| + max(0, −x₀) + max(0, x₁ − L);
+//! - a curve point with x in [0, L] is |y| from the line; one with x < 0 is √(x² + y²) from V0
+//!   with x₀ ≤ x < 0, so at most √(x₀² + max|y|²) (and likewise past L): the curve is within
+//!   √(max|y|² + o²) of the line, o = max(0, −x₀, x₁ − L) the larger overhang;
 //! - a line point with x in [x₀, x₁] has a curve point straight across, |y| away; one in
 //!   [0, x₀) is within max(|V0 − C₀|, |y(C₀)|) of the curve's start C₀ (the distance to a point is
 //!   convex along a segment), and likewise at the end.
 //!
-//! So d_H ≤ max(max|y|, |V0 − C₀|, |V1 − C₁|) + the overhangs, and max|y| ≤ d_H is attained.
+//! So d_H ≤ max(√(max|y|² + o²), |V0 − C₀|, |V1 − C₁|), and max|y| ≤ d_H is attained.
 //!
 //! Every piece is taken in power form over its own parameter interval [t₀, t₁] of the source
 //! segment (`power.rs`): C(t) = N(t) / W(t) with N a polynomial of degree ≤ 3 and W = 1 for a
@@ -155,7 +156,7 @@ pub fn line_deviation_and_spread(pieces: &[PowerPiece], line: Line) -> Option<(D
             }
         }
     }
-    let overhang = (-first.x).max(0.0) + (last.x - len).max(0.0);
+    let overhang = (-first.x).max(last.x - len).max(0.0);
     let ends = first.hypot().max((last - Vec2::new(len, 0.0)).hypot());
     let at = v0 + at.map_or(first, |q| q.x * u + q.y * n);
     // (|x| + |y| ≥ the distance from the origin.)
@@ -163,7 +164,7 @@ pub fn line_deviation_and_spread(pieces: &[PowerPiece], line: Line) -> Option<(D
         .max(v1.x.abs() + v1.y.abs())
         .max(len);
     let deviation = Deviation {
-        bound: h.max(ends) + overhang + gaps + ROUNDING * scale,
+        bound: h.hypot(overhang).max(ends) + gaps + ROUNDING * scale,
         sampled: h,
         at: [at.x, at.y],
     };
@@ -299,6 +300,21 @@ mod tests {
             // (The far end moved by the gap too: at most 2.5 + gap from the line's end.)
             assert!(b.bound <= 2.5 + 2.0 * gap + 1e-9, "gap {gap}: {b:?}");
         }
+    }
+
+    #[test]
+    fn an_overhanging_curve_is_bounded_by_its_distance_from_the_line_end() {
+        // The quadratic of REFERENCES §5 against the raised line from (1, 2.5): the curve starts
+        // 1 before the line's start and 2.5 below it, so its start is √(1 + 2.5²) from V0, the
+        // largest distance either way [derived]. The bound is that distance, not 2.5 + 1, and
+        // never below the certified measurement.
+        let q = Segment::Quad(QuadBez::new((0.0, 0.0), (5.0, 10.0), (10.0, 0.0)));
+        let line = Line::new((1.0, 2.5), (10.0, 2.5));
+        let b = line_deviation(&[q], line).unwrap();
+        assert!((b.bound - 7.25_f64.sqrt()).abs() < 1e-9, "{b:?}");
+        let m = hausdorff(&[q], &[Segment::Line(line)], 1e-9);
+        assert!(b.bound >= m.sampled - 1e-9, "{b:?} vs {m:?}");
+        assert!((m.sampled - 7.25_f64.sqrt()).abs() < 1e-6, "{m:?}");
     }
 
     #[test]
