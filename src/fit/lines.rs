@@ -164,7 +164,7 @@ pub fn line_deviation_and_spread(pieces: &[PowerPiece], line: Line) -> Option<(D
         .max(v1.x.abs() + v1.y.abs())
         .max(len);
     let deviation = Deviation {
-        bound: h.hypot(overhang).max(ends) + gaps + ROUNDING * scale,
+        bound: Vec2::new(h, overhang).hypot().max(ends) + gaps + ROUNDING * scale,
         sampled: h,
         at: [at.x, at.y],
     };
