@@ -11,7 +11,9 @@
 //! Without `--bench` (as `cargo test --all-targets` runs it) it does a small smoke run.
 //!
 //! Every timed job consumes every output coordinate (summed into `black_box`), so nothing is
-//! optimised away; reading the input is not timed. ratline's time includes its certification;
+//! optimised away; reading the input is not timed. ratline and kurbo run in turn, run by run,
+//! so a shared machine's drifts in speed reach both medians alike. ratline's time includes its
+//! certification;
 //! kurbo's methods estimate their error and are measured afterwards, untimed, with
 //! `ratline::measure::hausdorff` against the exact source (a certified value for kurbo too),
 //! and both sides are checked by the independent dense sampling of `dense.rs`.
@@ -114,27 +116,71 @@ struct Timed<T> {
 /// least 2 ms and report the time per run; a job of 0.5 s or more counts its first run as a
 /// repetition. `sum` consumes every output coordinate.
 fn timed<T>(reps: usize, mut job: impl FnMut() -> T, sum: impl Fn(&T) -> f64) -> Timed<T> {
-    let start = Instant::now();
-    let result = job();
-    black_box(sum(&result));
-    let once = start.elapsed();
-    let batch = (2e-3 / once.as_secs_f64().max(1e-9)).ceil().max(1.0) as u32;
-    let mut times = Vec::new();
-    if once >= Duration::from_millis(500) {
-        times.push(once);
-    }
+    let (result, mut times, batch) = first_run(&mut job, &sum);
     while times.len() < reps.max(1) {
-        let t = Instant::now();
-        for _ in 0..batch {
-            let r = job();
-            black_box(sum(&r));
-        }
-        times.push(t.elapsed() / batch);
+        times.push(batch_run(&mut job, &sum, batch));
     }
     Timed {
         median: median(times),
         result,
     }
+}
+
+/// Two jobs timed as [`timed`], in turn run by run, so both see the same stretches of a shared
+/// machine and their ratio holds even when its speed drifts.
+fn timed_pair<A, B>(
+    reps: usize,
+    mut a: impl FnMut() -> A,
+    sum_a: impl Fn(&A) -> f64,
+    mut b: impl FnMut() -> B,
+    sum_b: impl Fn(&B) -> f64,
+) -> (Timed<A>, Timed<B>) {
+    let (result_a, mut times_a, batch_a) = first_run(&mut a, &sum_a);
+    let (result_b, mut times_b, batch_b) = first_run(&mut b, &sum_b);
+    while times_a.len() < reps.max(1) || times_b.len() < reps.max(1) {
+        if times_a.len() < reps.max(1) {
+            times_a.push(batch_run(&mut a, &sum_a, batch_a));
+        }
+        if times_b.len() < reps.max(1) {
+            times_b.push(batch_run(&mut b, &sum_b, batch_b));
+        }
+    }
+    (
+        Timed {
+            median: median(times_a),
+            result: result_a,
+        },
+        Timed {
+            median: median(times_b),
+            result: result_b,
+        },
+    )
+}
+
+/// A job's first run: its result, the run as a repetition if it took 0.5 s or more, and the
+/// batch size for the next runs (at least 2 ms a batch).
+fn first_run<T>(job: &mut impl FnMut() -> T, sum: &impl Fn(&T) -> f64) -> (T, Vec<Duration>, u32) {
+    let start = Instant::now();
+    let result = job();
+    black_box(sum(&result));
+    let once = start.elapsed();
+    let batch = (2e-3 / once.as_secs_f64().max(1e-9)).ceil().max(1.0) as u32;
+    let times = if once >= Duration::from_millis(500) {
+        vec![once]
+    } else {
+        Vec::new()
+    };
+    (result, times, batch)
+}
+
+/// The time per run of one batch of `batch` runs.
+fn batch_run<T>(job: &mut impl FnMut() -> T, sum: &impl Fn(&T) -> f64, batch: u32) -> Duration {
+    let t = Instant::now();
+    for _ in 0..batch {
+        let r = job();
+        black_box(sum(&r));
+    }
+    t.elapsed() / batch
 }
 
 /// The median of at least one time.
@@ -268,29 +314,30 @@ fn font_row(
         f.glyphs,
         f.contours.len()
     );
-    eprintln!("{input}: {} ...", target.name());
-    let r = match ratline {
-        Some(s) => *s,
-        None => {
-            let run = timed(
-                reps,
-                || {
-                    f.contours
-                        .iter()
-                        .map(|c| fit(c, target, t))
-                        .collect::<Vec<_>>()
-                },
-                |v| fitted_checksum(v),
-            );
-            ratline_side(&f.contours, &run.result, tol, run.median)
-        }
-    };
-    eprintln!("{input}: kurbo {kurbo_name} ...");
-    let k = timed(
+    eprintln!(
+        "{input}: {} and kurbo {kurbo_name}, in turn ...",
+        target.name()
+    );
+    let (run, k) = timed_pair(
         reps,
+        || {
+            f.contours
+                .iter()
+                .map(|c| fit(c, target, t))
+                .collect::<Vec<_>>()
+        },
+        |v| fitted_checksum(v),
         || f.paths.iter().map(&kurbo).collect::<Vec<_>>(),
         |v| paths_checksum(v),
     );
+    // (A side measured in an earlier row keeps its checks and takes this run's time.)
+    let r = match ratline {
+        Some(s) => Side {
+            time: run.median,
+            ..*s
+        },
+        None => ratline_side(&f.contours, &run.result, tol, run.median),
+    };
     Row {
         input,
         target: format!("{} (kurbo: {kurbo_name})", target.name()),
@@ -379,20 +426,26 @@ fn circle_rows(reps: usize, rows: &mut Vec<Row>) {
         for tol in [0.01, 0.001] {
             let source = [jobs::circle_contour(r)];
             for (target, kt, kname) in targets {
-                let run = timed(
-                    reps,
-                    || vec![fit(&source[0], target, tolerance(tol))],
-                    |v| fitted_checksum(v),
-                );
-                let ratline = ratline_side(&source, &run.result, tol, run.median);
-                let kurbo = kt.map(|kt| {
-                    let k = timed(
-                        reps,
-                        || vec![jobs::kurbo_circle(r, kt, tol)],
-                        |v| paths_checksum(v),
-                    );
-                    kurbo_side(&source, &k.result, tol, k.median)
-                });
+                let ratline_job = || vec![fit(&source[0], target, tolerance(tol))];
+                let (ratline, kurbo) = match kt {
+                    Some(kt) => {
+                        let (run, k) = timed_pair(
+                            reps,
+                            ratline_job,
+                            |v| fitted_checksum(v),
+                            || vec![jobs::kurbo_circle(r, kt, tol)],
+                            |v| paths_checksum(v),
+                        );
+                        (
+                            ratline_side(&source, &run.result, tol, run.median),
+                            Some(kurbo_side(&source, &k.result, tol, k.median)),
+                        )
+                    }
+                    None => {
+                        let run = timed(reps, ratline_job, |v| fitted_checksum(v));
+                        (ratline_side(&source, &run.result, tol, run.median), None)
+                    }
+                };
                 rows.push(Row {
                     input: format!("circle r = {r} mm"),
                     target: format!("{} (kurbo: {kname})", target.name()),
@@ -413,7 +466,7 @@ fn arc_row(n: usize, dense_n: usize, reps: usize) -> Row {
     let t = tolerance(tol);
     let params = jobs::random_svg_arcs(n, jobs::ARC_SEED);
     eprintln!("{n} random arcs ...");
-    let r = timed(
+    let (r, k) = timed_pair(
         reps,
         || {
             params
@@ -428,9 +481,6 @@ fn arc_row(n: usize, dense_n: usize, reps: usize) -> Row {
                 .map(|f| jobs::checksum(&f.contour.segments))
                 .sum()
         },
-    );
-    let k = timed(
-        reps,
         || {
             params
                 .iter()
