@@ -30,6 +30,7 @@
 //! With the line's ends on the curve (a chord) the bound is exactly max|y|, the chord's
 //! sagitta.
 
+use arrayvec::ArrayVec;
 use kurbo::common::solve_quadratic;
 use kurbo::{Line, Vec2};
 
@@ -149,8 +150,7 @@ pub fn line_deviation_and_spread(pieces: &[PowerPiece], line: Line) -> Option<(D
         (prev_end, last) = (Some(end), end);
         visit(start);
         visit(end);
-        let [q0, q1, q2] = slope_numerator(&f.y, f.w);
-        for &t in solve_quadratic(q0, q1, q2).iter() {
+        for t in roots(slope_numerator(&f.y, f.w)) {
             if t > p.t0 && t < p.t1 {
                 visit(f.at(t));
             }
@@ -169,6 +169,17 @@ pub fn line_deviation_and_spread(pieces: &[PowerPiece], line: Line) -> Option<(D
         at: [at.x, at.y],
     };
     Some((deviation, y_max - y_min))
+}
+
+/// The real roots of q₀ + q₁t + q₂t², the linear equation's where q₂ = 0 (as for the slope of
+/// a quadratic Bézier, which needs no reciprocal of q₂).
+fn roots([q0, q1, q2]: [f64; 3]) -> ArrayVec<f64, 2> {
+    if q2 == 0.0 {
+        let t = -q0 / q1;
+        t.is_finite().then_some(t).into_iter().collect()
+    } else {
+        solve_quadratic(q0, q1, q2)
+    }
 }
 
 #[cfg(test)]

@@ -224,7 +224,13 @@ pub fn fit_limited(
         // size their output themselves.)
         out.reserve(contour.segments.len());
     }
-    let runs = runs(&contour.segments);
+    // (Lines need the runs only to find a contour that is one whole circle, which starts on it.)
+    let starts_on_circle = contour.segments.first().and_then(circle_of).is_some();
+    let runs = if target != Target::Lines || starts_on_circle {
+        runs(&contour.segments)
+    } else {
+        Vec::new()
+    };
     match (target, runs.as_slice()) {
         (Target::Lines, [Run::Circle { arc, parts }])
             if contour.closed && arc.sweep.abs() >= TAU - 1e-9 =>

@@ -90,6 +90,14 @@ impl Part {
     }
 }
 
+/// A span position σ, located: the part under it and the parameter there.
+#[derive(Clone, Copy)]
+struct Position<'a> {
+    sigma: f64,
+    part: &'a Part,
+    t: f64,
+}
+
 /// A point of the curve and its outward unit normal (none where the tangent is undefined).
 type Anchor = (Point, Option<Vec2>);
 
@@ -191,21 +199,25 @@ fn floor_index(sigma: f64) -> usize {
 }
 
 impl Span<'_> {
-    /// The part at span position σ ∈ [0, parts] (part k covers [k, k+1]) and the parameter
-    /// there.
-    fn locate(&self, sigma: f64) -> (&Part, f64) {
+    /// Span position σ ∈ [0, parts] (part k covers [k, k+1]) with the part there and its
+    /// parameter.
+    fn position(&self, sigma: f64) -> Position<'_> {
         let k = floor_index(sigma).min(self.parts.len() - 1);
-        let p = &self.parts[k];
+        let part = &self.parts[k];
         let f = (sigma - k as f64).clamp(0.0, 1.0);
-        (p, p.t0 + f * (p.t1 - p.t0))
+        Position {
+            sigma,
+            part,
+            t: part.t0 + f * (part.t1 - part.t0),
+        }
     }
 
     /// Source segment and parameter at span position σ.
     fn at(&self, sigma: f64) -> At {
-        let (p, t) = self.locate(sigma);
+        let p = self.position(sigma);
         At {
-            segment: p.index,
-            t,
+            segment: p.part.index,
+            t: p.t,
         }
     }
 
@@ -241,8 +253,8 @@ impl Span<'_> {
     /// acceleration across its direction (exact for a parabola, n taken at the step's middle),
     /// taken here half a step ahead: half the `previous` line's length ahead, or half the step
     /// predicted at `a` for the first line.
-    fn guess(&self, segs: &[Segment], a: f64, bulge: f64, previous: Option<f64>) -> f64 {
-        let (p, t) = self.locate(a);
+    fn guess(&self, segs: &[Segment], a: Position, bulge: f64, previous: Option<f64>) -> f64 {
+        let (p, t) = (a.part, a.t);
         // (A product rather than a quotient: the reciprocal does not wait on the step.)
         let per_t = (p.t1 - p.t0).recip();
         let ahead = previous.map_or_else(|| p.bulge_step(segs, t, bulge), |h| h * (p.t1 - p.t0));
@@ -250,14 +262,14 @@ impl Span<'_> {
         if h.is_finite() && h > 0.0 {
             h
         } else {
-            self.parts.len() as f64 - a
+            self.parts.len() as f64 - a.sigma
         }
     }
 
     /// The point at span position σ and the curve's outward unit normal there, and the source
     /// position.
-    fn point_normal(&self, segs: &[Segment], sigma: f64) -> (Anchor, At) {
-        let (p, t) = self.locate(sigma);
+    fn point_normal(&self, segs: &[Segment], at: Position) -> (Anchor, At) {
+        let (p, t) = (at.part, at.t);
         let (point, tangent) = p.point_tangent(segs, t);
         let at = At {
             segment: p.index,
@@ -274,8 +286,8 @@ impl Span<'_> {
     /// the drawing's extent, so the lines never reach beyond it.
     /// `anchors` are [`Span::point_normal`] at the span's two ends.
     /// Returned with the source position at σ.
-    fn vertex(&self, segs: &[Segment], anchors: &[Anchor; 2], sigma: f64, d: f64) -> (Point, At) {
-        let ((p, normal), at) = self.point_normal(segs, sigma);
+    fn vertex(&self, segs: &[Segment], anchors: &[Anchor; 2], at: Position, d: f64) -> (Point, At) {
+        let ((p, normal), at) = self.point_normal(segs, at);
         let Some(n) = normal.filter(|_| d > 0.0) else {
             return (p, at);
         };
@@ -355,10 +367,13 @@ fn fit_span(
     };
     let spread_goal = goal + offset;
     let anchors = [
-        span.point_normal(segs, 0.0).0,
-        span.point_normal(segs, end).0,
+        span.point_normal(segs, span.position(0.0)).0,
+        span.point_normal(segs, span.position(end)).0,
     ];
-    let vertex = |b: f64| span.vertex(segs, &anchors, b, if b >= end { 0.0 } else { offset });
+    let vertex = |b: Position| {
+        let d = if b.sigma >= end { 0.0 } else { offset };
+        span.vertex(segs, &anchors, b, d)
+    };
     let mut line_from = |a: f64, va: Point, b: f64, vb: Point| {
         let line = Line::new(va, vb);
         let one;
@@ -391,13 +406,13 @@ fn fit_span(
             b.min(end)
         }
     };
-    let guess = |a: f64, previous: Option<f64>| {
-        span.guess(segs, a, aimed_bulge(a == 0.0, goal, offset), previous)
+    let guess = |a: Position, previous: Option<f64>| {
+        span.guess(segs, a, aimed_bulge(a.sigma == 0.0, goal, offset), previous)
     };
     let mut a = 0.0;
     let mut previous = None;
     // The current line's start: span position, vertex and source position.
-    let (mut va, mut from) = span.vertex(segs, &anchors, 0.0, 0.0);
+    let (mut va, mut from) = span.vertex(segs, &anchors, span.position(0.0), 0.0);
     let mut plan: ArrayVec<(f64, Point, At), PLAN_AHEAD> = ArrayVec::new();
     let source_of = |a: f64, b: f64| {
         let mut pieces = Vec::new();
@@ -411,16 +426,16 @@ fn fit_span(
     let mut retries = 0;
     while a < end {
         plan.clear();
-        let (mut s, mut h) = (a, previous);
-        while !plan.is_full() && s < end {
-            let step = match retry.filter(|_| s == a) {
+        let (mut s, mut h) = (span.position(a), previous);
+        while !plan.is_full() && s.sigma < end {
+            let step = match retry.filter(|_| s.sigma == a) {
                 Some(step) => step,
                 None => guess(s, h),
             };
-            let b = snap(s, s + step);
+            let b = span.position(snap(s.sigma, s.sigma + step));
             let (vb, to) = vertex(b);
-            plan.push((b, vb, to));
-            (s, h) = (b, Some(b - s));
+            plan.push((b.sigma, vb, to));
+            (s, h) = (b, Some(b.sigma - s.sigma));
         }
         let mut missed = None;
         for &(b, vb, to) in &plan {
@@ -451,11 +466,17 @@ fn fit_span(
         }
         retries = 0;
         retry = None;
-        let (b, (mut line, mut found)) = search_end(a, end, guess(a, previous), spread_goal, |b| {
-            let b = snap(a, b);
-            let found = line_from(a, va, b, vertex(b).0);
-            (error(&found.1), found)
-        });
+        let (b, (mut line, mut found)) = search_end(
+            a,
+            end,
+            guess(span.position(a), previous),
+            spread_goal,
+            |b| {
+                let b = snap(a, b);
+                let found = line_from(a, va, b, vertex(span.position(b)).0);
+                (error(&found.1), found)
+            },
+        );
         let mut b = snap(a, b);
         let deviation = loop {
             match found {
@@ -464,13 +485,13 @@ fn fit_span(
                     // No line this short has a closed form: one line to the span's end,
                     // measured as it is (and reported if over the tolerance).
                     b = end;
-                    line = Line::new(va, vertex(b).0);
+                    line = Line::new(va, vertex(span.position(b)).0);
                     let out = [Segment::Line(line)];
                     break measure::hausdorff_within(&source_of(a, b), &out, CERT_SLACK * tol, tol);
                 }
                 _ => {
                     b = snap(a, a + 0.8 * (b - a));
-                    (line, found) = line_from(a, va, b, vertex(b).0);
+                    (line, found) = line_from(a, va, b, vertex(span.position(b)).0);
                 }
             }
         };
@@ -529,11 +550,11 @@ pub(super) fn lines(segs: &[Segment], tol: f64, out: &mut Pieces) -> Result<(), 
         })
         .peekable();
     for (i, s) in segs.iter().enumerate() {
-        if s.speed_bound() == 0.0 {
-            continue;
-        }
+        // (A curve of zero length has no span.)
         if matches!(s, Segment::Line(_)) {
-            out.push(super::exact(*s, i))?;
+            if s.speed_bound() != 0.0 {
+                out.push(super::exact(*s, i))?;
+            }
             continue;
         }
         while let Some(span) = next.next_if(|sp| sp.parts[0].index == i) {
