@@ -15,7 +15,7 @@ use std::sync::OnceLock;
 
 use kurbo::BezPath;
 use ratline::fit::{fit, Fitted, Target};
-use ratline::geom::{Contour, Tolerance};
+use ratline::geom::{Contour, SvgArcParams, Tolerance};
 
 use dense::Set;
 use jobs::{CircleTarget, QuadMethod};
@@ -217,18 +217,9 @@ fn random_arcs_lines_at_most_four_fifths_of_kurbo() {
         .iter()
         .enumerate()
     {
-        let (Some(c), Some(k)) = (jobs::ratline_arc(a, i), jobs::kurbo_arc(a)) else {
+        let Some((f, k)) = arc_lines_checked(a, i) else {
             continue;
         };
-        let f = fit(&c, Target::Lines, tol());
-        assert!(f.deviation.bound <= TOL, "arc {i}: {:?}", f.deviation);
-        let (samples, reference) = dense::arc_reference(&k);
-        let d = dense::dense(
-            &samples,
-            &reference,
-            &Set::from_segments(&f.contour.segments),
-        );
-        assert!(d <= TOL, "arc {i}: dense check {d} mm > {TOL} mm");
         ours += f.contour.segments.len();
         theirs += jobs::segments_of(&jobs::kurbo_arc_lines(&k, TOL)).len();
     }
@@ -247,20 +238,28 @@ fn random_arcs_that_once_reached_a_dead_end_fit() {
     for i in [
         1100, 2237, 9863, 11020, 12265, 15398, 29641, 37559, 41707, 41830, 50696,
     ] {
-        let Some(c) = jobs::ratline_arc(&arcs[i], i) else {
-            panic!("arc {i} is an arc");
-        };
-        let f = fit(&c, Target::Lines, tol());
-        assert!(f.deviation.bound <= TOL, "arc {i}: {:?}", f.deviation);
-        let k = jobs::kurbo_arc(&arcs[i]).expect("kurbo reads it too");
-        let (samples, reference) = dense::arc_reference(&k);
-        let d = dense::dense(
-            &samples,
-            &reference,
-            &Set::from_segments(&f.contour.segments),
+        assert!(
+            arc_lines_checked(&arcs[i], i).is_some(),
+            "arc {i} is an arc"
         );
-        assert!(d <= TOL, "arc {i}: dense check {d} mm > {TOL} mm");
     }
+}
+
+/// Random arc `i` fitted with lines (with kurbo's reading of it), asserted within the
+/// tolerance, certified and by the dense check against kurbo's arc; `None` where the SVG rules
+/// make it no arc.
+fn arc_lines_checked(a: &SvgArcParams, i: usize) -> Option<(Fitted, kurbo::Arc)> {
+    let (c, k) = (jobs::ratline_arc(a, i)?, jobs::kurbo_arc(a)?);
+    let f = fit(&c, Target::Lines, tol());
+    assert!(f.deviation.bound <= TOL, "arc {i}: {:?}", f.deviation);
+    let (samples, reference) = dense::arc_reference(&k);
+    let d = dense::dense(
+        &samples,
+        &reference,
+        &Set::from_segments(&f.contour.segments),
+    );
+    assert!(d <= TOL, "arc {i}: dense check {d} mm > {TOL} mm");
+    Some((f, k))
 }
 
 const RADII: [f64; 5] = [0.5, 1.0, 10.0, 100.0, 400.0];
