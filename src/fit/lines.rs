@@ -30,7 +30,6 @@
 //! With the line's ends on the curve (a chord) the bound is exactly max|y|, the chord's
 //! sagitta.
 
-use arrayvec::ArrayVec;
 use kurbo::common::solve_quadratic;
 use kurbo::{Line, Vec2};
 
@@ -150,11 +149,12 @@ pub fn line_deviation_and_spread(pieces: &[PowerPiece], line: Line) -> Option<(D
         (prev_end, last) = (Some(end), end);
         visit(start);
         visit(end);
-        for t in roots(slope_numerator(&f.y, f.w)) {
+        each_root(slope_numerator(&f.y, f.w), |t| {
+            // (False for a NaN or infinite root too.)
             if t > p.t0 && t < p.t1 {
                 visit(f.at(t));
             }
-        }
+        });
     }
     let overhang = (-first.x).max(last.x - len).max(0.0);
     let ends = first.hypot().max((last - Vec2::new(len, 0.0)).hypot());
@@ -171,14 +171,14 @@ pub fn line_deviation_and_spread(pieces: &[PowerPiece], line: Line) -> Option<(D
     Some((deviation, y_max - y_min))
 }
 
-/// The real roots of q₀ + q₁t + q₂t², the linear equation's where q₂ = 0 (as for the slope of
-/// a quadratic Bézier, which needs no reciprocal of q₂).
-fn roots([q0, q1, q2]: [f64; 3]) -> ArrayVec<f64, 2> {
+/// Calls `f` with each real root of q₀ + q₁t + q₂t², with −q₀/q₁ where q₂ = 0 (as for the
+/// slope of a quadratic Bézier: no reciprocal of q₂, and no list of roots to pass back; NaN or
+/// infinite where q₁ = 0 too).
+fn each_root([q0, q1, q2]: [f64; 3], mut f: impl FnMut(f64)) {
     if q2 == 0.0 {
-        let t = -q0 / q1;
-        t.is_finite().then_some(t).into_iter().collect()
+        f(-q0 / q1);
     } else {
-        solve_quadratic(q0, q1, q2)
+        solve_quadratic(q0, q1, q2).into_iter().for_each(f);
     }
 }
 
