@@ -127,13 +127,17 @@ pub fn line_deviation_and_spread(pieces: &[PowerPiece], line: Line) -> Option<(D
     let mut prev_end: Option<Vec2> = None;
     let (mut first, mut last) = (Vec2::ZERO, Vec2::ZERO);
     let mut gaps = 0.0;
-    // The largest |y| so far, at the frame point `at`.
-    let (mut h, mut at) = (0.0, None);
-    let (mut y_min, mut y_max) = (f64::INFINITY, f64::NEG_INFINITY);
+    // The frame points of least and greatest y so far.
+    let (mut low, mut high) = (
+        Vec2::new(0.0, f64::INFINITY),
+        Vec2::new(0.0, f64::NEG_INFINITY),
+    );
     let mut visit = |q: Vec2| {
-        (y_min, y_max) = (y_min.min(q.y), y_max.max(q.y));
-        if q.y.abs() > h {
-            (h, at) = (q.y.abs(), Some(q));
+        if q.y < low.y {
+            low = q;
+        }
+        if q.y > high.y {
+            high = q;
         }
     };
     for p in pieces {
@@ -156,9 +160,15 @@ pub fn line_deviation_and_spread(pieces: &[PowerPiece], line: Line) -> Option<(D
             }
         });
     }
+    // max|y| and where it is attained.
+    let (h, at) = if high.y >= -low.y {
+        (high.y, high)
+    } else {
+        (-low.y, low)
+    };
     let overhang = (-first.x).max(last.x - len).max(0.0);
     let ends = first.hypot().max((last - Vec2::new(len, 0.0)).hypot());
-    let at = v0 + at.map_or(first, |q| q.x * u + q.y * n);
+    let at = v0 + at.x * u + at.y * n;
     // (|x| + |y| ≥ the distance from the origin.)
     let scale = (v0.x.abs() + v0.y.abs())
         .max(v1.x.abs() + v1.y.abs())
@@ -168,7 +178,7 @@ pub fn line_deviation_and_spread(pieces: &[PowerPiece], line: Line) -> Option<(D
         sampled: h,
         at: [at.x, at.y],
     };
-    Some((deviation, y_max - y_min))
+    Some((deviation, high.y - low.y))
 }
 
 /// Calls `f` with each real root of q₀ + q₁t + q₂t², with −q₀/q₁ where q₂ = 0 (as for the
