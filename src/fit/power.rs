@@ -118,10 +118,10 @@ impl PowerPiece {
     /// The parameter step over which the curve bulges by about `bulge` from its chord:
     /// √(8·bulge / |a|), a the acceleration across the direction of travel at t, as
     /// [`Segment::normal_acceleration_at`] (exact for a parabola with a taken at the step's
-    /// middle, whose tangent is parallel to the chord, while the curve's midpoint lies
-    /// B″h²/8 off the chord's [derived]); infinite where the curve does not turn, NaN where
-    /// its velocity vanishes. Written as √(8·bulge·s / |c|) with a = c / s (module docs), so that only one
-    /// division waits on the square root of the speed.
+    /// middle, whose tangent is parallel to the chord, while the curve's midpoint lies B″h²/8
+    /// off the chord's [derived]); infinite where the curve does not turn, NaN where its
+    /// velocity vanishes. Written as √(8·bulge·s / |c|) with a = c / s (module docs), so that
+    /// only one division waits on the square root of the speed.
     pub fn bulge_step(&self, t: f64, bulge: f64) -> f64 {
         let ([n, d, dd], [w, dw, ddw]) = self.jets(t);
         let (c, s) = if self.is_polynomial() {
@@ -177,9 +177,9 @@ mod tests {
     #[test]
     fn power_form_agrees_with_the_segments_own_evaluation() {
         // Each kind's own de Casteljau evaluation, derivative and normal acceleration (the
-        // latter through the bulge step; the
         // conic's by its constant determinant, `conic.rs`; kurbo's hodographs otherwise)
-        // against the power form at interior parameters.
+        // against the power form at interior parameters, the acceleration through the bulge
+        // step √(8·bulge / |a|).
         let line = Segment::Line(kurbo::Line::new((1.0, 2.0), (7.0, -3.0)));
         for s in std::iter::once(line).chain(sample_curves()) {
             let p = PowerPiece::of(&s, 0.0, 1.0).unwrap();
