@@ -225,8 +225,8 @@ pub fn fit_limited(
         out.reserve(contour.segments.len());
     }
     // (Lines need the runs only to find a contour that is one whole circle, which starts on it.)
-    let starts_on_circle = contour.segments.first().and_then(circle_of).is_some();
-    let runs = if target != Target::Lines || starts_on_circle {
+    let runs = if target != Target::Lines || contour.segments.first().and_then(circle_of).is_some()
+    {
         runs(&contour.segments)
     } else {
         Vec::new()

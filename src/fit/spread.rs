@@ -366,10 +366,9 @@ fn fit_span(
         OFFSET_SHARE * goal
     };
     let spread_goal = goal + offset;
-    let anchors = [
-        span.point_normal(segs, span.position(0.0)).0,
-        span.point_normal(segs, span.position(end)).0,
-    ];
+    // The span's start: the first line's vertex there (on the curve) and source position.
+    let (start, mut from) = span.point_normal(segs, span.position(0.0));
+    let anchors = [start, span.point_normal(segs, span.position(end)).0];
     let vertex = |b: Position| {
         let d = if b.sigma >= end { 0.0 } else { offset };
         span.vertex(segs, &anchors, b, d)
@@ -411,8 +410,8 @@ fn fit_span(
     };
     let mut a = 0.0;
     let mut previous = None;
-    // The current line's start: span position, vertex and source position.
-    let (mut va, mut from) = span.vertex(segs, &anchors, span.position(0.0), 0.0);
+    // The current line's start: span position `a`, vertex `va` and source position `from`.
+    let mut va = start.0;
     let mut plan: ArrayVec<(f64, Point, At), PLAN_AHEAD> = ArrayVec::new();
     let source_of = |a: f64, b: f64| {
         let mut pieces = Vec::new();
@@ -441,7 +440,8 @@ fn fit_span(
         for &(b, vb, to) in &plan {
             let (line, found) = line_from(a, va, b, vb);
             match found {
-                Some((d, _)) if d.bound <= tol && error(&found) <= spread_goal => {
+                // (Within the spread goal, the bound is within the goal too: `error`.)
+                Some((d, _)) if error(&found) <= spread_goal => {
                     out.push(Draft {
                         out: super::one(Segment::Line(line)),
                         from,
