@@ -94,11 +94,15 @@ fn framed(p: &PowerPiece, origin: Vec2, u: Vec2, n: Vec2) -> Framed {
     }
 }
 
-/// Whether the quadratic q₀ + q₁t + q₂t² is ≥ 0 on all of [t0, t1].
-fn non_negative(q: [f64; 3], t0: f64, t1: f64) -> bool {
-    let at = |t: f64| q[0] + t * (q[1] + t * q[2]);
-    let vertex = if q[2] > 0.0 { -q[1] / (2.0 * q[2]) } else { t0 };
-    at(t0) >= 0.0 && at(t1) >= 0.0 && (vertex <= t0 || vertex >= t1 || at(vertex) >= 0.0)
+/// Whether the quadratic q₀ + q₁t + q₂t² is ≥ 0 on all of [t0, t1]: at both ends, and where it
+/// opens upwards with its vertex −q₁ / 2q₂ between them, at the vertex, whose value
+/// q₀ − q₁² / 4q₂ is ≥ 0 when 4q₀q₂ ≥ q₁² (both compared without a division).
+fn non_negative([q0, q1, q2]: [f64; 3], t0: f64, t1: f64) -> bool {
+    let at = |t: f64| q0 + t * (q1 + t * q2);
+    let inside = |t: f64| -q1 > 2.0 * q2 * t;
+    at(t0) >= 0.0
+        && at(t1) >= 0.0
+        && (q2 <= 0.0 || !inside(t0) || inside(t1) || 4.0 * q0 * q2 >= q1 * q1)
 }
 
 /// A certified bound on the Hausdorff distance between a connected run of source segments and
@@ -109,16 +113,25 @@ pub fn line_deviation(sources: &[Segment], line: Line) -> Option<Deviation> {
     for s in sources {
         push_pieces(s, 0.0, 1.0, &mut pieces);
     }
-    line_deviation_and_spread(&pieces, line).map(|(d, _)| d)
+    line_deviation_and_spread(over_own(&pieces), line).map(|(d, _)| d)
 }
 
-/// [`line_deviation`] for a run of power-form pieces, and the run's spread across the line:
-/// max y − min y, the curve's own bulge over the line's direction, whatever the line's offset.
-pub fn line_deviation_and_spread(pieces: &[PowerPiece], line: Line) -> Option<(Deviation, f64)> {
+/// Each piece over its own interval, for [`line_deviation_and_spread`].
+pub fn over_own(pieces: &[PowerPiece]) -> impl Iterator<Item = (&PowerPiece, f64, f64)> {
+    pieces.iter().map(|p| (p, p.t0, p.t1))
+}
+
+/// [`line_deviation`] for a run of power-form pieces, each over the parameter interval given
+/// with it, and the run's spread across the line: max y − min y, the curve's
+/// own bulge over the line's direction, whatever the line's offset.
+pub fn line_deviation_and_spread<'a>(
+    pieces: impl IntoIterator<Item = (&'a PowerPiece, f64, f64)>,
+    line: Line,
+) -> Option<(Deviation, f64)> {
     let (v0, v1) = (line.p0, line.p1);
     let d = v1 - v0;
     let len = d.hypot();
-    if len == 0.0 || pieces.is_empty() {
+    if len == 0.0 {
         return None;
     }
     let u = d / len;
@@ -140,12 +153,12 @@ pub fn line_deviation_and_spread(pieces: &[PowerPiece], line: Line) -> Option<(D
             high = q;
         }
     };
-    for p in pieces {
+    for (p, t0, t1) in pieces {
         let f = framed(p, origin, u, n);
-        if !non_negative(slope_numerator(&f.x, f.w), p.t0, p.t1) {
+        if !non_negative(slope_numerator(&f.x, f.w), t0, t1) {
             return None;
         }
-        let (start, end) = (f.at(p.t0), f.at(p.t1));
+        let (start, end) = (f.at(t0), f.at(t1));
         match prev_end {
             Some(e) => gaps += (start - e).hypot(),
             None => first = start,
@@ -155,11 +168,13 @@ pub fn line_deviation_and_spread(pieces: &[PowerPiece], line: Line) -> Option<(D
         visit(end);
         each_root(slope_numerator(&f.y, f.w), |t| {
             // (False for a NaN or infinite root too.)
-            if t > p.t0 && t < p.t1 {
+            if t > t0 && t < t1 {
                 visit(f.at(t));
             }
         });
     }
+    // (No piece, no bound.)
+    prev_end?;
     // max|y| and where it is attained.
     let (h, at) = if high.y >= -low.y {
         (high.y, high)
@@ -167,14 +182,17 @@ pub fn line_deviation_and_spread(pieces: &[PowerPiece], line: Line) -> Option<(D
         (-low.y, low)
     };
     let overhang = (-first.x).max(last.x - len).max(0.0);
-    let ends = first.hypot().max((last - Vec2::new(len, 0.0)).hypot());
+    // (The largest of the three distances as the root of the largest square: one root.)
+    let squares = (first.hypot2())
+        .max((last - Vec2::new(len, 0.0)).hypot2())
+        .max(h * h + overhang * overhang);
     let at = v0 + at.x * u + at.y * n;
     // (|x| + |y| ≥ the distance from the origin.)
     let scale = (v0.x.abs() + v0.y.abs())
         .max(v1.x.abs() + v1.y.abs())
         .max(len);
     let deviation = Deviation {
-        bound: Vec2::new(h, overhang).hypot().max(ends) + gaps + ROUNDING * scale,
+        bound: squares.sqrt() + gaps + ROUNDING * scale,
         sampled: h,
         at: [at.x, at.y],
     };
@@ -198,6 +216,21 @@ mod tests {
     use crate::fit::power::sample_curves;
     use crate::measure::hausdorff;
     use kurbo::{Affine, CubicBez, Point, QuadBez};
+
+    #[test]
+    fn a_quadratic_is_non_negative_only_if_its_vertex_is() {
+        // (t − 1/2)² ∓ 1/100, as [q₀, q₁, q₂]: its least value ∓1/100 at t = 1/2 [derived].
+        let dips = [0.25 - 0.01, -1.0, 1.0];
+        let clears = [0.25 + 0.01, -1.0, 1.0];
+        assert!(!non_negative(dips, 0.0, 1.0));
+        assert!(non_negative(clears, 0.0, 1.0));
+        // The dip outside the interval, or the vertex at its end: the ends decide.
+        assert!(non_negative(dips, 0.7, 1.0));
+        assert!(!non_negative(dips, 0.5, 0.55));
+        // Opening downwards: the ends decide.
+        assert!(non_negative([0.1, 1.0, -1.0], 0.0, 1.0));
+        assert!(!non_negative([0.1, 1.0, -1.0], 0.0, 1.2));
+    }
 
     #[test]
     fn closed_forms_agree_with_the_certified_measurement() {
@@ -248,10 +281,10 @@ mod tests {
             let line = Line::new(a + Vec2::new(0.0, 0.1), b + Vec2::new(0.0, 0.1));
             let mut pieces = Vec::new();
             push_pieces(&s, 0.2, 0.7, &mut pieces);
-            let (d, spread) = line_deviation_and_spread(&pieces, line).unwrap();
+            let (d, spread) = line_deviation_and_spread(over_own(&pieces), line).unwrap();
             pieces.clear();
             push_pieces(&s.subsegment(0.2, 0.7), 0.0, 1.0, &mut pieces);
-            let (e, cut_spread) = line_deviation_and_spread(&pieces, line).unwrap();
+            let (e, cut_spread) = line_deviation_and_spread(over_own(&pieces), line).unwrap();
             assert!((d.bound - e.bound).abs() < 1e-9, "{s:?}: {d:?} vs {e:?}");
             assert!((spread - cut_spread).abs() < 1e-9, "{s:?}");
         }
@@ -283,7 +316,7 @@ mod tests {
             let line = Line::new(s.eval(t0) + jitter(), s.eval(t1) + jitter());
             let mut pieces = Vec::new();
             push_pieces(&s, t0, t1, &mut pieces);
-            let Some((b, _)) = line_deviation_and_spread(&pieces, line) else {
+            let Some((b, _)) = line_deviation_and_spread(over_own(&pieces), line) else {
                 continue;
             };
             applied += 1;

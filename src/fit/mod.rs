@@ -185,6 +185,25 @@ impl Pieces {
         self.pieces.reserve(n);
     }
 
+    /// A piece of one segment (as [`Pieces::push`], without building a [`Draft`]).
+    fn push_one(
+        &mut self,
+        segment: Segment,
+        from: At,
+        to: At,
+        deviation: Deviation,
+    ) -> Result<(), OverLimit> {
+        self.room(1)?;
+        self.segments.push(segment);
+        self.pieces.push(Piece {
+            segments: 1,
+            from,
+            to,
+            deviation,
+        });
+        Ok(())
+    }
+
     fn push(&mut self, p: Draft) -> Result<(), OverLimit> {
         self.room(p.out.len())?;
         self.segments.extend(p.out.iter().copied());

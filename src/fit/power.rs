@@ -27,6 +27,8 @@ pub struct PowerPiece {
     pub w: [f64; 3],
     pub t0: f64,
     pub t1: f64,
+    /// Whether W = 1 (a line or a Bézier), kept so the test costs no comparison.
+    polynomial: bool,
 }
 
 impl PowerPiece {
@@ -64,12 +66,18 @@ impl PowerPiece {
             }
             Segment::Arc(_) => return None,
         };
-        Some(PowerPiece { n, w, t0, t1 })
+        Some(PowerPiece {
+            n,
+            w,
+            t0,
+            t1,
+            polynomial: !matches!(s, Segment::Conic(_)),
+        })
     }
 
     /// Whether W = 1 (a line or a Bézier).
     pub fn is_polynomial(&self) -> bool {
-        self.w == [1.0, 0.0, 0.0]
+        self.polynomial
     }
 
     /// The same segment over [t0, t1].

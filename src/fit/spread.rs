@@ -35,7 +35,7 @@ use kurbo::{Line, Point, Vec2, MAX_EXTREMA};
 
 use super::lines;
 use super::power::{self, PowerPiece};
-use super::{search_end, At, Draft, OverLimit, Pieces, CERT_SLACK, SEARCH_GOAL, SEARCH_WINDOW};
+use super::{search_end, At, OverLimit, Pieces, CERT_SLACK, SEARCH_GOAL, SEARCH_WINDOW};
 use crate::geom::{CircularArc, Segment};
 use crate::measure::{self, Deviation};
 
@@ -56,6 +56,8 @@ struct Part {
     power: Option<PowerPiece>,
     /// The segment's speed bound: the scale below which its velocity counts as vanishing.
     speed: f64,
+    /// 1 / (t1 − t0), span positions per unit of parameter.
+    per_t: f64,
 }
 
 impl Part {
@@ -178,6 +180,7 @@ fn spans(segs: &[Segment]) -> (Vec<Part>, Vec<(Range<usize>, f64)>) {
                 t1: w[1],
                 power: PowerPiece::of(s, w[0], w[1]),
                 speed,
+                per_t: (w[1] - w[0]).recip(),
             };
             let turn = turn_of(s, w[0], w[1]);
             let joins = k == 0 && open && i > 0 && smooth_join(&segs[i - 1], s);
@@ -238,14 +241,14 @@ impl Span<'_> {
         }
     }
 
-    /// The source under span positions a < b as one power-form piece, when it lies within one
-    /// part that has one.
-    fn single_piece(&self, a: f64, b: f64) -> Option<PowerPiece> {
+    /// The source under span positions a < b as one power-form piece and its parameter
+    /// interval, when it lies within one part that has one.
+    fn single_piece(&self, a: f64, b: f64) -> Option<(&PowerPiece, f64, f64)> {
         let k = floor_index(a).min(self.parts.len() - 1);
         let p = &self.parts[k];
         let (f0, f1) = (a - k as f64, b - k as f64);
-        let piece = p.power.filter(|_| f1 <= 1.0)?;
-        Some(piece.over(p.t0 + f0 * (p.t1 - p.t0), p.t0 + f1 * (p.t1 - p.t0)))
+        let piece = p.power.as_ref().filter(|_| f1 <= 1.0)?;
+        Some((piece, p.t0 + f0 * (p.t1 - p.t0), p.t0 + f1 * (p.t1 - p.t0)))
     }
 
     /// A first guess at the length, in span positions, of a line from σ = `a` over which the
@@ -255,10 +258,8 @@ impl Span<'_> {
     /// predicted at `a` for the first line.
     fn guess(&self, segs: &[Segment], a: Position, bulge: f64, previous: Option<f64>) -> f64 {
         let (p, t) = (a.part, a.t);
-        // (A product rather than a quotient: the reciprocal does not wait on the step.)
-        let per_t = (p.t1 - p.t0).recip();
         let ahead = previous.map_or_else(|| p.bulge_step(segs, t, bulge), |h| h * (p.t1 - p.t0));
-        let h = p.bulge_step(segs, (t + 0.5 * ahead).min(p.t1), bulge) * per_t;
+        let h = p.bulge_step(segs, (t + 0.5 * ahead).min(p.t1), bulge) * p.per_t;
         if h.is_finite() && h > 0.0 {
             h
         } else {
@@ -375,19 +376,15 @@ fn fit_span(
     };
     let mut line_from = |a: f64, va: Point, b: f64, vb: Point| {
         let line = Line::new(va, vb);
-        let one;
-        let pieces = match span.single_piece(a, b) {
-            Some(p) => {
-                one = p;
-                std::slice::from_ref(&one)
-            }
+        let found = match span.single_piece(a, b) {
+            Some(one) => lines::line_deviation_and_spread([one], line),
             None => {
                 source.clear();
                 span.each_part(a, b, |p, t0, t1| p.push_pieces(segs, t0, t1, source));
-                source.as_slice()
+                lines::line_deviation_and_spread(lines::over_own(source), line)
             }
         };
-        (line, lines::line_deviation_and_spread(pieces, line))
+        (line, found)
     };
     // The error the search and the plan compare with the spread goal.
     let error = |found: &Option<(Deviation, f64)>| match found {
@@ -442,12 +439,7 @@ fn fit_span(
             match found {
                 // (Within the spread goal, the bound is within the goal too: `error`.)
                 Some((d, _)) if error(&found) <= spread_goal => {
-                    out.push(Draft {
-                        out: super::one(Segment::Line(line)),
-                        from,
-                        to,
-                        deviation: d,
-                    })?;
+                    out.push_one(Segment::Line(line), from, to, d)?;
                     (previous, a, va, from, retry, retries) = (Some(b - a), b, vb, to, None, 0);
                 }
                 _ => {
@@ -496,12 +488,7 @@ fn fit_span(
             }
         };
         let to = span.at(b);
-        out.push(Draft {
-            out: super::one(Segment::Line(line)),
-            from,
-            to,
-            deviation,
-        })?;
+        out.push_one(Segment::Line(line), from, to, deviation)?;
         (previous, a, va, from) = (Some(b - a), b, line.p1, to);
     }
     Ok(())
@@ -595,16 +582,16 @@ pub(super) fn circle(
     for k in 0..n {
         // The last line ends exactly where the first starts.
         let (p, q) = (vertex(k), vertex((k + 1) % n));
-        out.push(Draft {
-            out: super::one(Segment::Line(Line::new(p, q))),
-            from: at(k as f64 / n as f64),
-            to: at((k + 1) as f64 / n as f64),
-            deviation: Deviation {
+        out.push_one(
+            Segment::Line(Line::new(p, q)),
+            at(k as f64 / n as f64),
+            at((k + 1) as f64 / n as f64),
+            Deviation {
                 bound: error,
                 sampled: (big - r).abs(),
                 at: [p.x, p.y],
             },
-        })?;
+        )?;
     }
     Ok(())
 }
