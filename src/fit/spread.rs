@@ -140,7 +140,8 @@ fn turn_of(s: &Segment, t0: f64, t1: f64) -> f64 {
     let (a, b, c) = (s.eval(t0), s.eval(0.5 * (t0 + t1)), s.eval(t1));
     let (u, v) = (b - a, c - b);
     let cross = u.cross(v);
-    if cross.abs() <= 1e-12 * u.hypot() * v.hypot() {
+    // (|u × v| ≤ 10⁻¹²·|u|·|v|, squared: no roots.)
+    if cross * cross <= 1e-24 * u.hypot2() * v.hypot2() {
         0.0
     } else {
         cross.signum()
