@@ -603,9 +603,10 @@ fn parallel_rows(dejavu: &Font, cantarell: &Font, reps: usize) -> Result<Vec<Par
             );
             (start.elapsed(), r)
         };
-        // One untimed run on each pool first: each worker thread has its own allocator arena
-        // (glibc malloc), which a first run grows (page faults) and later runs reuse, so both
-        // pools are timed warm, whatever earlier jobs left in the heap.
+        // One untimed run on each pool first, so both are timed warm whatever earlier jobs left
+        // in the heap: a worker thread may get an allocator arena of its own (glibc malloc),
+        // which its first run grows. (Without it, the cubic job measured 1.59 after the other
+        // jobs and 1.92 alone.)
         black_box(run(&one));
         black_box(run(&two));
         let (mut times_one, mut times_two) = (Vec::new(), Vec::new());
