@@ -122,8 +122,8 @@ pub fn over_own(pieces: &[PowerPiece]) -> impl Iterator<Item = (&PowerPiece, f64
 }
 
 /// [`line_deviation`] for a run of power-form pieces, each over the parameter interval given
-/// with it, and the run's spread across the line: max y − min y, the curve's
-/// own bulge over the line's direction, whatever the line's offset.
+/// with it, and the run's spread across the line: max y − min y, the curve's own bulge over the
+/// line's direction, whatever the line's offset.
 pub fn line_deviation_and_spread<'a>(
     pieces: impl IntoIterator<Item = (&'a PowerPiece, f64, f64)>,
     line: Line,
@@ -183,7 +183,8 @@ pub fn line_deviation_and_spread<'a>(
     };
     let overhang = (-first.x).max(last.x - len).max(0.0);
     // (The largest of the three distances as the root of the largest square: one root.)
-    let squares = (first.hypot2())
+    let squares = first
+        .hypot2()
         .max((last - Vec2::new(len, 0.0)).hypot2())
         .max(h * h + overhang * overhang);
     let at = v0 + at.x * u + at.y * n;

@@ -27,7 +27,9 @@ pub struct PowerPiece {
     pub w: [f64; 3],
     pub t0: f64,
     pub t1: f64,
-    /// Whether W = 1 (a line or a Bézier), kept so the test costs no comparison.
+    /// Whether W = 1 (a line or a Bézier), decided once by [`PowerPiece::of`]: the test runs in
+    /// every evaluation (as a comparison of the weights: 659 M instead of 619 M instructions
+    /// for the lines fit of DejaVu Sans).
     polynomial: bool,
 }
 

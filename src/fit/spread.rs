@@ -56,8 +56,6 @@ struct Part {
     power: Option<PowerPiece>,
     /// The segment's speed bound: the scale below which its velocity counts as vanishing.
     speed: f64,
-    /// 1 / (t1 − t0), span positions per unit of parameter.
-    per_t: f64,
 }
 
 impl Part {
@@ -181,7 +179,6 @@ fn spans(segs: &[Segment]) -> (Vec<Part>, Vec<(Range<usize>, f64)>) {
                 t1: w[1],
                 power: PowerPiece::of(s, w[0], w[1]),
                 speed,
-                per_t: (w[1] - w[0]).recip(),
             };
             let turn = turn_of(s, w[0], w[1]);
             let joins = k == 0 && open && i > 0 && smooth_join(&segs[i - 1], s);
@@ -259,8 +256,10 @@ impl Span<'_> {
     /// predicted at `a` for the first line.
     fn guess(&self, segs: &[Segment], a: Position, bulge: f64, previous: Option<f64>) -> f64 {
         let (p, t) = (a.part, a.t);
+        // (A product rather than a quotient: the reciprocal does not wait on the step.)
+        let per_t = (p.t1 - p.t0).recip();
         let ahead = previous.map_or_else(|| p.bulge_step(segs, t, bulge), |h| h * (p.t1 - p.t0));
-        let h = p.bulge_step(segs, (t + 0.5 * ahead).min(p.t1), bulge) * p.per_t;
+        let h = p.bulge_step(segs, (t + 0.5 * ahead).min(p.t1), bulge) * per_t;
         if h.is_finite() && h > 0.0 {
             h
         } else {
