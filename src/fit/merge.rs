@@ -420,8 +420,9 @@ fn power_form(c: &CubicBez) -> PowerPiece {
     }
 }
 
-/// The piece of the candidate's cubic replacing `pieces`, when its certified deviation is within the
-/// tolerance: the bound through the fit's parameters where it is, else the general measurement.
+/// The piece of the candidate's cubic replacing `pieces`, when its certified deviation is within
+/// the tolerance: the bound through the fit's parameters where it is, else the general
+/// measurement.
 fn certified(pieces: &[View], candidate: &Candidate, tol: f64) -> Option<Piece> {
     let Candidate {
         source,
