@@ -74,7 +74,8 @@ impl Framed {
     }
 }
 
-/// The piece in the frame with origin `origin` and unit axes `u` (x) and `n` (y).
+/// The piece in the frame with origin `origin` and axes `u` (x) and `n` (y), at right angles and
+/// of one length.
 fn framed(p: &PowerPiece, origin: Vec2, u: Vec2, n: Vec2) -> Framed {
     let [n0, n1, n2, n3] = p.n;
     let [w0, w1, w2] = p.w;
@@ -130,12 +131,14 @@ pub fn line_deviation_and_spread<'a>(
 ) -> Option<(Deviation, f64)> {
     let (v0, v1) = (line.p0, line.p1);
     let d = v1 - v0;
-    let len = d.hypot();
-    if len == 0.0 {
+    let len2 = d.hypot2();
+    if len2 == 0.0 {
         return None;
     }
-    let u = d / len;
-    let n = Vec2::new(-u.y, u.x);
+    // The frame scaled by the line's length L (axes d and d turned 90°): every coordinate is L
+    // times the unit frame's, which the tests below do not see (they compare signs and
+    // parameters), and the closing root and divisions wait on nothing but d.
+    let n = Vec2::new(-d.y, d.x);
     let origin = v0.to_vec2();
     let mut prev_end: Option<Vec2> = None;
     let (mut first, mut last) = (Vec2::ZERO, Vec2::ZERO);
@@ -154,7 +157,7 @@ pub fn line_deviation_and_spread<'a>(
         }
     };
     for (p, t0, t1) in pieces {
-        let f = framed(p, origin, u, n);
+        let f = framed(p, origin, d, n);
         if !non_negative(slope_numerator(&f.x, f.w), t0, t1) {
             return None;
         }
@@ -175,29 +178,32 @@ pub fn line_deviation_and_spread<'a>(
     }
     // (No piece, no bound.)
     prev_end?;
-    // max|y| and where it is attained.
+    // 1 / L² and 1 / L, back to lengths.
+    let per_len2 = len2.recip();
+    let per_len = per_len2.sqrt();
+    // L·max|y| and where it is attained.
     let (h, at) = if high.y >= -low.y {
         (high.y, high)
     } else {
         (-low.y, low)
     };
-    let overhang = (-first.x).max(last.x - len).max(0.0);
+    let overhang = (-first.x).max(last.x - len2).max(0.0);
     // (The largest of the three distances as the root of the largest square: one root.)
     let squares = first
         .hypot2()
-        .max((last - Vec2::new(len, 0.0)).hypot2())
+        .max((last - Vec2::new(len2, 0.0)).hypot2())
         .max(h * h + overhang * overhang);
-    let at = v0 + at.x * u + at.y * n;
+    let at = v0 + (at.x * d + at.y * n) * per_len2;
     // (|x| + |y| ≥ the distance from the origin.)
     let scale = (v0.x.abs() + v0.y.abs())
         .max(v1.x.abs() + v1.y.abs())
-        .max(len);
+        .max(d.x.abs() + d.y.abs());
     let deviation = Deviation {
-        bound: squares.sqrt() + gaps + ROUNDING * scale,
-        sampled: h,
+        bound: (squares * per_len2).sqrt() + gaps * per_len + ROUNDING * scale,
+        sampled: h * per_len,
         at: [at.x, at.y],
     };
-    Some((deviation, high.y - low.y))
+    Some((deviation, (high.y - low.y) * per_len))
 }
 
 /// Calls `f` with each real root of q₀ + q₁t + q₂t², with −q₀/q₁ where q₂ = 0 (as for the
