@@ -94,6 +94,8 @@ impl Part {
 #[derive(Clone, Copy)]
 struct Position<'a> {
     sigma: f64,
+    /// ⌊σ⌋, the index of `part` (but the last part's at the span's end).
+    index: usize,
     part: &'a Part,
     t: f64,
 }
@@ -208,6 +210,7 @@ impl Span<'_> {
         let f = (sigma - k as f64).clamp(0.0, 1.0);
         Position {
             sigma,
+            index: k,
             part,
             t: part.t0 + f * (part.t1 - part.t0),
         }
@@ -255,16 +258,53 @@ impl Span<'_> {
     /// taken here half a step ahead: half the `previous` line's length ahead, or half the step
     /// predicted at `a` for the first line.
     fn guess(&self, segs: &[Segment], a: Position, bulge: f64, previous: Option<f64>) -> f64 {
-        let (p, t) = (a.part, a.t);
-        // (A product rather than a quotient: the reciprocal does not wait on the step.)
-        let per_t = (p.t1 - p.t0).recip();
-        let ahead = previous.map_or_else(|| p.bulge_step(segs, t, bulge), |h| h * (p.t1 - p.t0));
-        let h = p.bulge_step(segs, (t + 0.5 * ahead).min(p.t1), bulge) * per_t;
-        if h.is_finite() && h > 0.0 {
-            h
-        } else {
-            self.parts.len() as f64 - a.sigma
+        let p = a.part;
+        let ahead = previous.map(|h| h * (p.t1 - p.t0));
+        match self.parameter_step(segs, a, bulge, ahead) {
+            Some(h) => h * (p.t1 - p.t0).recip(),
+            None => self.parts.len() as f64 - a.sigma,
         }
+    }
+
+    /// [`Span::guess`] as a step of the parameter of `a`'s part, `ahead` the previous line's
+    /// (in that part's parameter); `None` where the curve does not turn there.
+    fn parameter_step(
+        &self,
+        segs: &[Segment],
+        a: Position,
+        bulge: f64,
+        ahead: Option<f64>,
+    ) -> Option<f64> {
+        let (p, t) = (a.part, a.t);
+        let ahead = ahead.unwrap_or_else(|| p.bulge_step(segs, t, bulge));
+        let h = p.bulge_step(segs, (t + 0.5 * ahead).min(p.t1), bulge);
+        (h.is_finite() && h > 0.0).then_some(h)
+    }
+
+    /// The position a parameter step `h` of `s`'s part past `s` (the span's end for `None`),
+    /// through `snap` where it comes near a part's end. Inside the part and clear of its ends
+    /// it is found without the round trip through σ, which would lie in the chain of
+    /// computations from one planned line to the next.
+    fn advance<'s>(
+        &'s self,
+        s: Position<'s>,
+        h: Option<f64>,
+        snap: impl Fn(f64) -> f64,
+    ) -> Position<'s> {
+        let p = s.part;
+        let room = p.t1 - p.t0;
+        let Some(h) = h else {
+            return self.position(snap(self.parts.len() as f64));
+        };
+        let t = s.t + h;
+        if t < p.t1 - SAME_T * room && h > SAME_T * room {
+            return Position {
+                sigma: s.index as f64 + (t - p.t0) / room,
+                t,
+                ..s
+            };
+        }
+        self.position(snap(s.sigma + h / room))
     }
 
     /// The point at span position σ and the curve's outward unit normal there, and the source
@@ -402,9 +442,8 @@ fn fit_span(
             b.min(end)
         }
     };
-    let guess = |a: Position, previous: Option<f64>| {
-        span.guess(segs, a, aimed_bulge(a.sigma == 0.0, goal, offset), previous)
-    };
+    let bulge_at = |a: Position| aimed_bulge(a.sigma == 0.0, goal, offset);
+    let guess = |a: Position, previous: Option<f64>| span.guess(segs, a, bulge_at(a), previous);
     let mut a = 0.0;
     let mut previous = None;
     // The current line's start: span position `a`, vertex `va` and source position `from`.
@@ -422,16 +461,25 @@ fn fit_span(
     let mut retries = 0;
     while a < end {
         plan.clear();
-        let (mut s, mut h) = (span.position(a), previous);
+        // (`h`: the last line's step in the parameter of the part where it ends.)
+        let mut s = span.position(a);
+        let mut h = previous.map(|h| h * (s.part.t1 - s.part.t0));
         while !plan.is_full() && s.sigma < end {
-            let step = match retry.filter(|_| s.sigma == a) {
-                Some(step) => step,
-                None => guess(s, h),
+            let b = match retry.filter(|_| s.sigma == a) {
+                Some(step) => span.position(snap(s.sigma, s.sigma + step)),
+                None => {
+                    let step = span.parameter_step(segs, s, bulge_at(s), h);
+                    span.advance(s, step, |b| snap(s.sigma, b))
+                }
             };
-            let b = span.position(snap(s.sigma, s.sigma + step));
             let (vb, to) = vertex(b);
             plan.push((b.sigma, vb, to));
-            (s, h) = (b, Some(b.sigma - s.sigma));
+            h = Some(if b.index == s.index {
+                b.t - s.t
+            } else {
+                (b.sigma - s.sigma) * (b.part.t1 - b.part.t0)
+            });
+            s = b;
         }
         let mut missed = None;
         for &(b, vb, to) in &plan {
