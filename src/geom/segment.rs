@@ -80,7 +80,8 @@ impl SegmentCounts {
 }
 
 fn max_norm(v: &[Vec2]) -> f64 {
-    v.iter().map(|d| d.hypot()).fold(0.0, f64::max)
+    // (The root of the largest square: one root, the same value.)
+    v.iter().map(|d| d.hypot2()).fold(0.0, f64::max).sqrt()
 }
 
 impl Segment {
