@@ -263,26 +263,16 @@ impl Span<'_> {
     fn guess(&self, segs: &[Segment], a: Position, bulge: f64, previous: Option<f64>) -> f64 {
         let p = a.part;
         let ahead = previous.map(|h| h * (p.t1 - p.t0));
-        match self.parameter_step(segs, a, bulge, ahead) {
+        match self.parameter_steps(segs, a, [bulge; 2], ahead).0 {
             Some(h) => h * (p.t1 - p.t0).recip(),
             None => self.parts.len() as f64 - a.sigma,
         }
     }
 
-    /// [`Span::guess`] as a step of the parameter of `a`'s part, `ahead` the previous line's
-    /// (in that part's parameter); `None` where the curve does not turn there.
-    fn parameter_step(
-        &self,
-        segs: &[Segment],
-        a: Position,
-        bulge: f64,
-        ahead: Option<f64>,
-    ) -> Option<f64> {
-        self.parameter_steps(segs, a, [bulge, bulge], ahead).0
-    }
-
-    /// [`Span::parameter_step`] for the line from `a` (aiming at `bulges[0]`) and for the one
-    /// after it (at `bulges[1]`), whose middle is taken one and a half previous steps ahead.
+    /// [`Span::guess`] as steps of the parameter of `a`'s part, `ahead` the previous line's
+    /// step (in that part's parameter), for the line from `a` (aiming at `bulges[0]`) and for
+    /// the one after it (at `bulges[1]`), whose middle is taken one and a half previous steps
+    /// ahead; `None` where the curve does not turn there.
     /// The second does not wait for the first, so two planned lines cost one evaluation's
     /// latency in the chain from one planned line to the next (measured: a chain of two
     /// evaluations per line instead of one made the lines fit of DejaVu Sans 17% slower).
