@@ -132,6 +132,7 @@ impl PowerPiece {
     /// off the chord's [derived]); infinite where the curve does not turn, NaN where its
     /// velocity vanishes. Written as √(8·bulge·s / |c|) with a = c / s (module docs), so that
     /// only one division waits on the square root of the speed.
+    #[inline(always)]
     pub fn bulge_step(&self, t: f64, bulge: f64) -> f64 {
         let ([n, d, dd], [w, dw, ddw]) = self.jets(t);
         let (c, s) = if self.is_polynomial() {
