@@ -431,7 +431,7 @@ fn fit_span(
     let mut line_from = |a: f64, va: Point, b: f64, vb: Point| {
         let line = Line::new(va, vb);
         let found = match span.single_piece(a, b) {
-            Some(one) => lines::line_deviation_and_spread([one], line),
+            Some((p, t0, t1)) => lines::piece_deviation_and_spread(p, t0, t1, line),
             None => {
                 source.clear();
                 span.each_part(a, b, |p, t0, t1| p.push_pieces(segs, t0, t1, source));
