@@ -145,6 +145,11 @@ impl Frame {
         })
     }
 
+    /// V0, the frame's origin.
+    fn origin(&self) -> Vec2 {
+        self.line.p0.to_vec2()
+    }
+
     /// The bound of the module docs and the spread, from the run's first and last frame points,
     /// the sum of the gaps between its pieces and its frame points of least and greatest y.
     fn close(&self, first: Vec2, last: Vec2, gaps: f64, y: &Extremes) -> (Deviation, f64) {
@@ -210,7 +215,7 @@ pub fn line_deviation_and_spread<'a>(
     line: Line,
 ) -> Option<(Deviation, f64)> {
     let frame = Frame::of(line)?;
-    let origin = line.p0.to_vec2();
+    let origin = frame.origin();
     let mut prev_end: Option<Vec2> = None;
     let (mut first, mut last) = (Vec2::ZERO, Vec2::ZERO);
     let mut gaps = 0.0;
@@ -256,7 +261,7 @@ pub fn piece_deviation_and_spread(
         return line_deviation_and_spread([(p, t0, t1)], line);
     }
     let frame = Frame::of(line)?;
-    let origin = line.p0.to_vec2();
+    let origin = frame.origin();
     // (The coefficients as `framed` computes them with W = 1, so the numbers are the same.)
     let along = |e: Vec2| [n0.dot(e) - origin.dot(e), n1.dot(e), n2.dot(e)];
     let (x, y) = (along(frame.d), along(frame.n));
@@ -377,7 +382,8 @@ mod tests {
         // lie near the piece's ends: the quadratic way gives exactly what the run of one piece
         // gives (the same closed form [derived]), both `None` where the piece is not a graph,
         // and its bound is never below the certified measurement's attained distance. A cubic
-        // or a conic goes the run's way.
+        // or a conic goes the run's way (checked last: the short way, which has no cubic term
+        // and no weights, would give other numbers for them).
         let mut rng = crate::testing::Rng::new(0x2545_F491_4F6C_DD1D);
         let mut unit = move || rng.unit();
         let (mut graphs, mut not_graphs) = (0, 0);
